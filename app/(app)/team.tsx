@@ -1,0 +1,87 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { Controller, useForm } from 'react-hook-form';
+import { StyleSheet, Text, View } from 'react-native';
+import { inviteUserSchema, ROLE_NAMES, type InviteUserInput } from '../../shared/schema/auth';
+import { Badge } from '../../components/ui/badge';
+import { Button } from '../../components/ui/button';
+import { Card } from '../../components/ui/card';
+import { Choice } from '../../components/ui/choice';
+import { Message } from '../../components/ui/message';
+import { Screen } from '../../components/ui/screen';
+import { TextField } from '../../components/ui/text-field';
+import { colors, space, type } from '../../constants/theme';
+import { useMe } from '../../hooks/use-me';
+import { useInviteUser, useTeam, useUpdateUser } from '../../hooks/use-team';
+
+const roleOptions = ROLE_NAMES.map((r) => ({ value: r, label: r[0].toUpperCase() + r.slice(1) }));
+
+export default function TeamScreen() {
+  const me = useMe().data!;
+  const team = useTeam();
+  const invite = useInviteUser();
+  const update = useUpdateUser();
+  const { control, handleSubmit, formState, reset } = useForm<InviteUserInput>({
+    resolver: zodResolver(inviteUserSchema),
+    defaultValues: { email: '', name: '', role: 'engineer' },
+  });
+  if (me.role !== 'admin') return <Screen title="Team" testID="team-screen"><Message text="Only administrators manage the team." /></Screen>;
+  const submit = handleSubmit((values) => invite.mutate(values, { onSuccess: () => reset() }));
+
+  return (
+    <Screen title="Team" subtitle="Invite people, set their role, disable accounts." testID="team-screen">
+      <Card title="Invite someone">
+        <View style={styles.row}>
+          <Controller control={control} name="name" render={({ field }) => (
+            <TextField label="Name" testID="invite-name" value={field.value} onChangeText={field.onChange} error={formState.errors.name?.message} />
+          )} />
+          <Controller control={control} name="email" render={({ field }) => (
+            <TextField label="E-mail" testID="invite-email" autoCapitalize="none" keyboardType="email-address" value={field.value} onChangeText={field.onChange} error={formState.errors.email?.message} />
+          )} />
+        </View>
+        <Controller control={control} name="role" render={({ field }) => (
+          <Choice label="Role" testID="invite-role" options={roleOptions} value={field.value} onChange={field.onChange} />
+        )} />
+        {invite.error ? <Message tone="error" text={invite.error.message} /> : null}
+        {invite.isSuccess ? <Message text={`Invitation sent to ${invite.data.email}.`} testID="invite-sent" /> : null}
+        <Button label="Send invitation" testID="invite-submit" onPress={submit} busy={invite.isPending} />
+      </Card>
+      <Card title="People">
+        {team.isError ? <Message tone="error" text={team.error.message} /> : null}
+        {team.data?.map((user) => (
+          <View key={user.id} style={styles.person} testID={`team-row-${user.email}`}>
+            <View style={styles.personHead}>
+              <Text style={type.heading}>{user.name}</Text>
+              {user.disabled ? <Badge label="Disabled" tone="fail" /> : user.invitePending ? <Badge label="Invitation pending" tone="pending" /> : <Badge label="Active" tone="pass" />}
+            </View>
+            <Text style={type.small}>{user.email}</Text>
+            <Choice
+              label="Role"
+              testID={`role-${user.email}`}
+              options={roleOptions}
+              value={user.role}
+              disabled={user.id === me.id}
+              onChange={(role) => update.mutate({ id: user.id, role })}
+            />
+            {user.id !== me.id ? (
+              <View style={{ alignSelf: 'flex-start' }}>
+                <Button
+                  label={user.disabled ? 'Enable account' : 'Disable account'}
+                  variant={user.disabled ? 'secondary' : 'danger'}
+                  testID={`toggle-${user.email}`}
+                  onPress={() => update.mutate({ id: user.id, disabled: !user.disabled })}
+                />
+              </View>
+            ) : null}
+          </View>
+        ))}
+        {update.error ? <Message tone="error" text={update.error.message} /> : null}
+      </Card>
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
+  person: { gap: space.sm, paddingVertical: space.md, borderTopWidth: 1, borderTopColor: colors.line },
+  personHead: { flexDirection: 'row', gap: space.sm, alignItems: 'center', flexWrap: 'wrap' },
+});

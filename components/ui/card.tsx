@@ -1,0 +1,41 @@
+import type { ReactNode } from 'react';
+import { StyleSheet, Text, View, type ViewStyle } from 'react-native';
+import { colors, radius, space, type } from '../../constants/theme';
+
+interface Props {
+  title?: string;
+  right?: ReactNode;
+  children: ReactNode;
+  testID?: string;
+  style?: ViewStyle;
+}
+
+export function Card({ title, right, children, testID, style }: Props) {
+  return (
+    <View testID={testID} style={[styles.card, style]}>
+      {title || right ? (
+        <View style={styles.header}>
+          {title ? (
+            <Text style={type.heading} accessibilityRole="header">
+              {title}
+            </Text>
+          ) : null}
+          {right}
+        </View>
+      ) : null}
+      {children}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  card: {
+    backgroundColor: colors.surface,
+    borderRadius: radius.lg,
+    borderWidth: 1,
+    borderColor: colors.line,
+    padding: space.lg,
+    gap: space.md,
+  },
+  header: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
+});

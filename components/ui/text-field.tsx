@@ -1,0 +1,54 @@
+import { forwardRef } from 'react';
+import { StyleSheet, Text, TextInput, View, type TextInputProps } from 'react-native';
+import { colors, fonts, radius, space, type } from '../../constants/theme';
+
+interface Props extends Omit<TextInputProps, 'style'> {
+  label: string;
+  testID: string;
+  error?: string;
+  hint?: string;
+}
+
+export const TextField = forwardRef<TextInput, Props>(function TextField({ label, error, hint, testID, ...input }, ref) {
+  return (
+    <View style={styles.wrap}>
+      <Text style={type.label} nativeID={`${testID}-label`}>
+        {label}
+      </Text>
+      <TextInput
+        ref={ref}
+        testID={testID}
+        accessibilityLabel={label}
+        aria-invalid={Boolean(error)}
+        placeholderTextColor={colors.inkFaint}
+        style={[styles.input, error ? styles.inputError : null, input.multiline ? styles.multiline : null]}
+        {...input}
+      />
+      {error ? (
+        <Text testID={`${testID}-error`} style={styles.error} accessibilityRole="alert">
+          ✕ {error}
+        </Text>
+      ) : hint ? (
+        <Text style={type.small}>{hint}</Text>
+      ) : null}
+    </View>
+  );
+});
+
+const styles = StyleSheet.create({
+  wrap: { gap: space.xs, flexGrow: 1, flexBasis: 0, minWidth: 140 },
+  input: {
+    minHeight: 44,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radius.md,
+    paddingHorizontal: space.md,
+    backgroundColor: colors.surface,
+    fontFamily: fonts.regular,
+    fontSize: 16,
+    color: colors.ink,
+  },
+  multiline: { minHeight: 120, paddingVertical: space.sm, textAlignVertical: 'top' },
+  inputError: { borderColor: colors.fail, borderWidth: 2 },
+  error: { fontFamily: fonts.medium, fontSize: 13, color: colors.fail },
+});

@@ -1,0 +1,15 @@
+// Every query key in one place, so a mutation knows exactly what to invalidate.
+export const keys = {
+  me: ['me'] as const,
+  users: ['users'] as const,
+  outbox: ['outbox'] as const,
+  overview: ['overview'] as const,
+  products: ['products'] as const,
+  dossiers: ['dossiers'] as const,
+  dossier: (id: number) => ['dossiers', id] as const,
+  revision: (id: number) => ['revisions', id] as const,
+  diff: (id: number, against?: number) => ['revisions', id, 'diff', against ?? 'previous'] as const,
+  reviews: ['reviews'] as const,
+  audit: (dossierId: number) => ['audit', dossierId] as const,
+  invite: (token: string) => ['invite', token] as const,
+};

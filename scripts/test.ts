@@ -1,0 +1,34 @@
+// `npm test`: make sure the system tools the tests need are present (installing them when running as
+// root, as CI does), build the web export the browser tests drive, then run every test.
+import { execSync, spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { buildWeb } from './build-web';
+
+const TOOLS: Array<[string, string]> = [
+  ['/usr/bin/chromium', 'chromium'],
+  ['/usr/bin/pdfsig', 'poppler-utils'],
+  ['/usr/bin/pdftotext', 'poppler-utils'],
+  ['/usr/bin/pdftoppm', 'poppler-utils'],
+  ['/usr/bin/qpdf', 'qpdf'],
+  ['/usr/bin/ngspice', 'ngspice'],
+];
+const APT_LINE = 'apt-get update && apt-get install -y chromium poppler-utils qpdf ngspice';
+
+const missing = () => TOOLS.filter(([path]) => !existsSync(path)).map(([, pkg]) => pkg);
+
+if (missing().length) {
+  if (process.getuid?.() === 0) {
+    console.log(`Installing test tools: ${[...new Set(missing())].join(', ')}`);
+    execSync(APT_LINE, { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+  }
+  if (missing().length) {
+    console.error(`Missing test tools (${[...new Set(missing())].join(', ')}). Install them with:\n  sudo ${APT_LINE}`);
+    process.exit(1);
+  }
+}
+
+console.log('Building the web export for the browser tests…');
+buildWeb();
+
+const result = spawnSync('npx', ['vitest', 'run', ...process.argv.slice(2)], { stdio: 'inherit' });
+process.exit(result.status ?? 1);

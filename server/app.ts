@@ -1,0 +1,64 @@
+import { existsSync } from 'node:fs';
+import { extname, join } from 'node:path';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import { pinoHttp } from 'pino-http';
+import { authRoutes } from './auth/routes';
+import { originCheck, sessionMiddleware } from './auth/middleware';
+import type { AppContext } from './context';
+import { AppError, errorMiddleware } from './errors';
+import { outboxRoutes } from './outbox/routes';
+import { userRoutes } from './users/routes';
+import { apiRoutes } from './routes';
+
+/** Builds the Express app: the JSON API under /api and the web export with a deep-link fallback. */
+export function createApp(ctx: AppContext): Express {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          // react-native-web writes its styles into <style> elements at run time.
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          fontSrc: ["'self'", 'data:'],
+          connectSrc: ["'self'"],
+          objectSrc: ["'none'"],
+          frameAncestors: ["'none'"],
+          upgradeInsecureRequests: ctx.config.production ? [] : null,
+        },
+      },
+      hsts: ctx.config.production,
+    }),
+  );
+  app.use(pinoHttp({ logger: ctx.log, autoLogging: { ignore: (req) => !req.url?.startsWith('/api') } }));
+
+  const api = express.Router();
+  api.use(express.json({ limit: '2mb' }));
+  api.use(originCheck);
+  api.use(sessionMiddleware(ctx.lucia));
+  api.get('/health', (_req, res) => {
+    res.json({ ok: true });
+  });
+  api.use('/auth', authRoutes(ctx));
+  api.use('/users', userRoutes(ctx));
+  if (!ctx.config.production) api.use('/outbox', outboxRoutes(ctx));
+  api.use(apiRoutes(ctx));
+  api.use((req, _res, next) => next(new AppError(404, 'not_found', `No API route ${req.method} ${req.path}.`)));
+  app.use('/api', api);
+
+  const webDir = ctx.config.webDir;
+  app.use(express.static(webDir, { index: false, maxAge: '1h' }));
+  app.get('/{*splat}', (req, res, next) => {
+    // Deep links get the app; a missing asset (with a file extension) stays a 404.
+    const index = join(webDir, 'index.html');
+    if (extname(req.path) || !req.accepts('html') || !existsSync(index)) return next();
+    res.sendFile(index);
+  });
+  app.use(errorMiddleware);
+  return app;
+}

@@ -1,0 +1,22 @@
+import type { Knex } from 'knex';
+import * as m001 from './migrations/001-users-and-sessions';
+import * as m002 from './migrations/002-mail-and-audit';
+import * as m003 from './migrations/003-dossiers-and-revisions';
+
+interface Migration {
+  up(knex: Knex): Promise<void>;
+  down(knex: Knex): Promise<void>;
+}
+
+// A static list: Knex's file-system loader cannot import .ts files under vitest.
+const migrations: Record<string, Migration> = {
+  '001-users-and-sessions': m001,
+  '002-mail-and-audit': m002,
+  '003-dossiers-and-revisions': m003,
+};
+
+export const migrationSource: Knex.MigrationSource<string> = {
+  getMigrations: async () => Object.keys(migrations),
+  getMigrationName: (name) => name,
+  getMigration: async (name) => migrations[name],
+};

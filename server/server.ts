@@ -1,0 +1,64 @@
+import { mkdirSync } from 'node:fs';
+import type { AddressInfo } from 'node:net';
+import type { Server } from 'node:http';
+import { pino } from 'pino';
+import { createApp } from './app';
+import { createLucia } from './auth/lucia';
+import type { Config } from './config';
+import type { AppContext } from './context';
+import { openDatabase } from './db/knex';
+import { seedDemo } from './db/seed';
+import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
+import { MailSender } from './mail/mailer';
+
+export interface RunningServer {
+  ctx: AppContext;
+  server: Server;
+  url: string;
+  fakeSmtp: FakeSmtp | null;
+  mail: MailSender;
+  close(): Promise<void>;
+}
+
+/** Opens the data folder, migrates, seeds the demo outside production, starts mail and listens. */
+export async function startServer(config: Config): Promise<RunningServer> {
+  const log = pino({ level: config.logLevel });
+  mkdirSync(config.dataDir, { recursive: true });
+  const db = await openDatabase(config.dataDir);
+  if (config.seedDemo) await seedDemo(db, log);
+
+  const fakeSmtp = config.production ? null : await startFakeSmtp(db, config.smtp.fakePort);
+  const smtpUrl = config.smtp.url ?? fakeSmtp!.url;
+  const mail = new MailSender(db, smtpUrl, config.smtp.from, log);
+  mail.start();
+
+  const ctx: AppContext = {
+    config,
+    db,
+    lucia: createLucia(db, config.production),
+    log,
+    kickMail: () => void mail.flush(),
+    baseUrl: config.publicUrl ?? `http://localhost:${config.port}`,
+  };
+  const app = createApp(ctx);
+  const server = await new Promise<Server>((resolve) => {
+    const s = app.listen(config.port, config.host, () => resolve(s));
+  });
+  const port = (server.address() as AddressInfo).port;
+  if (!config.publicUrl) ctx.baseUrl = `http://localhost:${port}`;
+  log.info({ port, dataDir: config.dataDir, fakeSmtp: fakeSmtp?.url ?? null }, 'Voltfall is listening');
+  return {
+    ctx,
+    server,
+    url: `http://127.0.0.1:${port}`,
+    fakeSmtp,
+    mail,
+    async close() {
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+      server.closeAllConnections();
+      await mail.stop();
+      await fakeSmtp?.close();
+      await db.destroy();
+    },
+  };
+}

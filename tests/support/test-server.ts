@@ -1,0 +1,65 @@
+// Starts the real server in-process on a fresh data folder: a real SQLite file, the real local SMTP
+// fake on a free loopback port, the real mail sender.
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import supertest from 'supertest';
+import { loadConfig, type Config } from '../../server/config';
+import { DEMO_PASSWORD, DEMO_USERS } from '../../server/db/seed';
+import { startServer, type RunningServer } from '../../server/server';
+
+export type DemoRole = 'admin' | 'engineer' | 'engineer2' | 'reviewer' | 'viewer';
+
+export const demoEmail = (role: DemoRole) => `${role}@fennel.test`;
+
+export interface TestServer extends RunningServer {
+  dataDir: string;
+  /** A supertest agent holding the session cookie of a demo user; sends a same-origin Origin header. */
+  signIn(role: DemoRole): Promise<supertest.Agent>;
+  anonymous(): supertest.Agent;
+  /** Waits until the fake SMTP server has received a message matching `predicate`. */
+  waitForMail(predicate: (m: { to: string; subject: string; text: string; html: string | null }) => boolean, timeoutMs?: number): Promise<{ to: string; subject: string; text: string; html: string | null }>;
+}
+
+export async function startTestServer(overrides: Partial<Config> = {}, env: NodeJS.ProcessEnv = {}): Promise<TestServer> {
+  const dataDir = mkdtempSync(join(tmpdir(), 'vf-test-'));
+  const config = loadConfig(
+    { NODE_ENV: 'test', PORT: '0', HOST: '127.0.0.1', VOLTFALL_DATA_DIR: dataDir, FAKE_SMTP_PORT: '0', LOG_LEVEL: 'silent', SIGN_IN_LIMIT_PER_15_MIN: '1000', ...env },
+    overrides,
+  );
+  const running = await startServer(config);
+  const origin = running.url;
+  const agentFor = () => {
+    const agent = supertest.agent(running.server);
+    agent.set('Origin', origin);
+    return agent;
+  };
+  return {
+    ...running,
+    dataDir,
+    anonymous: agentFor,
+    async signIn(role) {
+      const agent = agentFor();
+      const res = await agent.post('/api/auth/sign-in').send({ email: demoEmail(role), password: DEMO_PASSWORD });
+      if (res.status !== 200) throw new Error(`sign-in as ${role} failed: ${res.status} ${JSON.stringify(res.body)}`);
+      return agent;
+    },
+    async waitForMail(predicate, timeoutMs = 10_000) {
+      const deadline = Date.now() + timeoutMs;
+      while (Date.now() < deadline) {
+        await running.mail.flush();
+        const rows = await running.ctx.db('mail_outbox').orderBy('id');
+        const hit = rows.find(predicate);
+        if (hit) return hit;
+        await new Promise((r) => setTimeout(r, 50));
+      }
+      throw new Error('expected e-mail did not arrive at the fake SMTP server');
+    },
+    async close() {
+      await running.close();
+      rmSync(dataDir, { recursive: true, force: true });
+    },
+  };
+}
+
+export { DEMO_PASSWORD, DEMO_USERS };
