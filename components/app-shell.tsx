@@ -42,7 +42,7 @@ export function AppShell({ me, children }: { me: Me; children: ReactNode }) {
   if (wide) {
     return (
       <View style={styles.wideRoot}>
-        <View style={styles.rail} testID="side-rail" accessibilityRole="navigation">
+        <View style={styles.rail} testID="side-rail" role="navigation">
           <Text style={styles.brand}>Voltfall</Text>
           {items.map((item) => (
             <Link key={item.href} href={item.href as never} asChild>
@@ -68,7 +68,7 @@ export function AppShell({ me, children }: { me: Me; children: ReactNode }) {
   return (
     <View style={styles.phoneRoot}>
       <View style={styles.main}>{children}</View>
-      <View style={styles.bottomBar} testID="bottom-nav" accessibilityRole="navigation">
+      <View style={styles.bottomBar} testID="bottom-nav" role="navigation">
         {items
           .filter((i) => i.bottom)
           .map((item) => {

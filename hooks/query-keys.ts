@@ -1,4 +1,6 @@
 // Every query key in one place, so a mutation knows exactly what to invalidate.
+import type { RingingInputRaw } from '../shared/schema/snubber';
+
 export const keys = {
   me: ['me'] as const,
   users: ['users'] as const,
@@ -12,4 +14,5 @@ export const keys = {
   reviews: ['reviews'] as const,
   audit: (dossierId: number) => ['audit', dossierId] as const,
   invite: (token: string) => ['invite', token] as const,
+  snubberSizing: (input: RingingInputRaw | null) => ['calc', 'snubber', input] as const,
 };

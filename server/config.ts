@@ -43,7 +43,7 @@ export interface Config {
 }
 
 /** Reads and validates the environment once; refuses to start a production server without real mail and signing. */
-export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Partial<Config> = {}): Config {
+export function loadConfig(env: Record<string, string | undefined> = process.env, overrides: Partial<Config> = {}): Config {
   const parsed = envSchema.safeParse(env);
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');

@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import { Router } from 'express';
-import { rateLimit } from 'express-rate-limit';
+import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import { z } from 'zod';
 import { setPasswordSchema, signInSchema } from '../../shared/schema/auth';
 import { appendAudit } from '../audit/chain';
@@ -33,7 +33,7 @@ export function authRoutes(ctx: AppContext): Router {
     limit: ctx.config.signInLimitPer15Min,
     standardHeaders: 'draft-7',
     legacyHeaders: false,
-    keyGenerator: (req) => `${req.ip}|${String(req.body?.email ?? '').toLowerCase()}`,
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').toLowerCase()}`,
     handler: (_req, res) => {
       res.status(429).json({
         error: { code: 'too_many_attempts', message: 'Too many sign-in attempts. Wait 15 minutes, then try again.' },

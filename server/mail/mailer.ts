@@ -23,7 +23,7 @@ const MAX_ATTEMPTS = 8;
  */
 export class MailSender {
   private readonly transport: Transporter;
-  private timer: NodeJS.Timeout | null = null;
+  private timer: ReturnType<typeof setInterval> | null = null;
   private running: Promise<void> | null = null;
 
   constructor(
@@ -37,7 +37,6 @@ export class MailSender {
 
   start(intervalMs = 5_000): void {
     this.timer = setInterval(() => void this.flush(), intervalMs);
-    this.timer.unref();
   }
 
   async stop(): Promise<void> {

@@ -24,7 +24,8 @@ export interface WatchedPage {
 }
 
 export async function openBrowser(): Promise<Browser> {
-  const server = await startTestServer({ webDir: resolve('dist') });
+  // VOLTFALL_E2E_WEB_DIR lets a developer test an export built elsewhere; `npm test` builds dist/.
+  const server = await startTestServer({ webDir: resolve(process.env.VOLTFALL_E2E_WEB_DIR ?? 'dist') });
   mkdirSync(SCREENSHOT_DIR, { recursive: true });
   // One browser process; each page gets its own context (its own cookies).
   const chrome = await chromium.launch({

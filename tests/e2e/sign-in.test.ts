@@ -81,7 +81,11 @@ describe('signing in through the browser', () => {
     await p.page.getByTestId('sign-in-screen').waitFor();
     const families = await p.page.evaluate(async () => {
       await document.fonts.ready;
-      return [...document.fonts].filter((f) => f.status === 'loaded').map((f) => f.family.replace(/"/g, ''));
+      const loaded: string[] = [];
+      document.fonts.forEach((f) => {
+        if (f.status === 'loaded') loaded.push(f.family.replace(/"/g, ''));
+      });
+      return loaded;
     });
     expect(families).toContain('Inter_400Regular');
     await p.close();

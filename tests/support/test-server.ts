@@ -21,7 +21,7 @@ export interface TestServer extends RunningServer {
   waitForMail(predicate: (m: { to: string; subject: string; text: string; html: string | null }) => boolean, timeoutMs?: number): Promise<{ to: string; subject: string; text: string; html: string | null }>;
 }
 
-export async function startTestServer(overrides: Partial<Config> = {}, env: NodeJS.ProcessEnv = {}): Promise<TestServer> {
+export async function startTestServer(overrides: Partial<Config> = {}, env: Record<string, string> = {}): Promise<TestServer> {
   const dataDir = mkdtempSync(join(tmpdir(), 'vf-test-'));
   const config = loadConfig(
     { NODE_ENV: 'test', PORT: '0', HOST: '127.0.0.1', VOLTFALL_DATA_DIR: dataDir, FAKE_SMTP_PORT: '0', LOG_LEVEL: 'silent', SIGN_IN_LIMIT_PER_15_MIN: '1000', ...env },

@@ -1,0 +1,133 @@
+import { createTwoFilesPatch, diffLines } from 'diff';
+import { ALL_DESIGN_FIELDS, formatField, getPath, type FieldKind } from '../../shared/design-fields';
+import type { Revision } from './store';
+
+export interface InputChange {
+  path: string;
+  label: string;
+  from: string;
+  to: string;
+  fromValue: number | string | null;
+  toValue: number | string | null;
+  /** Relative change in %, when both sides are numbers and the old one is not zero. */
+  changePct: number | null;
+}
+
+export interface CheckChange {
+  id: string;
+  label: string;
+  from: { value: number | null; pass: boolean; unit: string } | null;
+  to: { value: number | null; pass: boolean; unit: string } | null;
+  /** "now-fails" stands out: a check that passed and no longer does. */
+  kind: 'now-fails' | 'now-passes' | 'value-changed' | 'added' | 'removed';
+}
+
+export interface RevisionDiff {
+  revision: { id: number; number: number };
+  against: { id: number; number: number };
+  inputs: InputChange[];
+  verdict: { from: string; to: string } | null;
+  checks: CheckChange[];
+  notes: { changed: boolean; parts: Array<{ added: boolean; removed: boolean; value: string }>; patch: string };
+  evidence: { added: Array<{ name: string; sha256: string; kind: string }>; removed: Array<{ name: string; sha256: string; kind: string }> };
+}
+
+function flatten(obj: unknown, prefix = ''): Map<string, unknown> {
+  const out = new Map<string, unknown>();
+  if (obj && typeof obj === 'object' && !Array.isArray(obj)) {
+    for (const [k, v] of Object.entries(obj)) {
+      for (const [p, leaf] of flatten(v, prefix ? `${prefix}.${k}` : k)) out.set(p, leaf);
+    }
+  } else if (Array.isArray(obj)) {
+    obj.forEach((v, i) => {
+      for (const [p, leaf] of flatten(v, `${prefix}[${i}]`)) out.set(p, leaf);
+    });
+  } else if (prefix) {
+    out.set(prefix, obj);
+  }
+  return out;
+}
+
+const KNOWN = new Map(ALL_DESIGN_FIELDS.map((f) => [f.path, f]));
+
+function show(kind: FieldKind | undefined, value: unknown): string {
+  if (value === undefined || value === null) return '—';
+  if (kind && typeof value === 'number') return formatField(kind, value);
+  return String(value);
+}
+
+function labelFor(path: string): string {
+  const known = KNOWN.get(path);
+  if (known) return known.label;
+  const snub = /^snubbers\[(\d+)]\.(\w+)$/.exec(path);
+  if (snub) return `Snubber ${Number(snub[1]) + 1}: ${snub[2]}`;
+  return path;
+}
+
+/** diffRevisions: inputs in engineering units with % change, checks and verdict, notes line by line, evidence by hash. */
+export function diffRevisions(current: Revision, previous: Revision): RevisionDiff {
+  const before = flatten(previous.design);
+  const after = flatten(current.design);
+  const paths = [...new Set([...before.keys(), ...after.keys()])];
+  const order = (p: string) => {
+    const i = ALL_DESIGN_FIELDS.findIndex((f) => f.path === p);
+    return i === -1 ? 1000 : i;
+  };
+  const inputs: InputChange[] = paths
+    .filter((p) => JSON.stringify(before.get(p) ?? null) !== JSON.stringify(after.get(p) ?? null))
+    .sort((a, b) => order(a) - order(b) || a.localeCompare(b))
+    .map((path) => {
+      const kind = KNOWN.get(path)?.kind;
+      const a = before.get(path);
+      const b = after.get(path);
+      const changePct = typeof a === 'number' && typeof b === 'number' && a !== 0 ? ((b - a) / Math.abs(a)) * 100 : null;
+      return {
+        path,
+        label: labelFor(path),
+        from: show(kind, a),
+        to: show(kind, b),
+        fromValue: (a ?? null) as number | string | null,
+        toValue: (b ?? null) as number | string | null,
+        changePct,
+      };
+    });
+
+  const oldChecks = new Map((previous.results.checks ?? []).map((c) => [c.id, c]));
+  const newChecks = new Map((current.results.checks ?? []).map((c) => [c.id, c]));
+  const checks: CheckChange[] = [];
+  for (const id of new Set([...oldChecks.keys(), ...newChecks.keys()])) {
+    const a = oldChecks.get(id);
+    const b = newChecks.get(id);
+    const side = (c: typeof a) => (c ? { value: c.value, pass: c.pass, unit: c.unit } : null);
+    let kind: CheckChange['kind'] | null = null;
+    if (a && !b) kind = 'removed';
+    else if (!a && b) kind = 'added';
+    else if (a && b && a.pass && !b.pass) kind = 'now-fails';
+    else if (a && b && !a.pass && b.pass) kind = 'now-passes';
+    else if (a && b && a.value !== b.value) kind = 'value-changed';
+    if (kind) checks.push({ id, label: (b ?? a)!.label, from: side(a), to: side(b), kind });
+  }
+  const rank: Record<CheckChange['kind'], number> = { 'now-fails': 0, 'now-passes': 1, 'value-changed': 2, added: 3, removed: 4 };
+  checks.sort((x, y) => rank[x.kind] - rank[y.kind]);
+
+  const oldEvidence = new Map(previous.evidence.map((e) => [e.sha256, e]));
+  const newEvidence = new Map(current.evidence.map((e) => [e.sha256, e]));
+  const brief = (e: Revision['evidence'][number]) => ({ name: e.originalName, sha256: e.sha256, kind: e.kind });
+
+  return {
+    revision: { id: current.id, number: current.number },
+    against: { id: previous.id, number: previous.number },
+    inputs,
+    verdict: previous.results.verdict !== current.results.verdict ? { from: previous.results.verdict, to: current.results.verdict } : null,
+    checks,
+    notes: {
+      changed: previous.notes !== current.notes,
+      parts: diffLines(previous.notes, current.notes).map((p) => ({ added: Boolean(p.added), removed: Boolean(p.removed), value: p.value })),
+      patch: createTwoFilesPatch(`revision ${previous.number}`, `revision ${current.number}`, previous.notes, current.notes),
+    },
+    evidence: {
+      added: current.evidence.filter((e) => !oldEvidence.has(e.sha256)).map(brief),
+      removed: previous.evidence.filter((e) => !newEvidence.has(e.sha256)).map(brief),
+    },
+  };
+}

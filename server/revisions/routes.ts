@@ -1,0 +1,48 @@
+import { Router } from 'express';
+import { revisionPatchSchema } from '../../shared/schema/workflow';
+import { allow, currentUser } from '../auth/middleware';
+import type { AppContext } from '../context';
+import { AppError, validationError } from '../errors';
+import { parseId } from '../params';
+import { diffRevisions } from './diff';
+import { submitRevision, updateDraft } from './domain';
+import { loadDossier, loadRevision } from './store';
+
+export function revisionRoutes(ctx: AppContext): Router {
+  const router = Router();
+  const { db } = ctx;
+
+  router.get('/:id', allow(), async (req, res) => {
+    const rev = await loadRevision(db, parseId(req.params.id));
+    const dossier = await loadDossier(db, rev.dossierId);
+    const siblings = await db('revision').where({ dossier_id: rev.dossierId }).orderBy('number').select('id', 'number', 'status');
+    res.json({ ...rev, dossier, siblings });
+  });
+
+  router.patch('/:id', allow('engineer', 'admin'), async (req, res) => {
+    const parsed = revisionPatchSchema.safeParse(req.body);
+    if (!parsed.success) throw validationError(parsed.error, 'Some design inputs are not valid.');
+    res.json(await updateDraft(ctx, currentUser(req), parseId(req.params.id), parsed.data));
+  });
+
+  router.post('/:id/submit', allow('engineer', 'admin'), async (req, res) => {
+    res.json(await submitRevision(ctx, currentUser(req), parseId(req.params.id)));
+  });
+
+  router.get('/:id/diff', allow(), async (req, res) => {
+    const current = await loadRevision(db, parseId(req.params.id));
+    let againstId: number | null = req.query.against === undefined ? current.createdFrom : parseId(req.query.against, 'against');
+    if (againstId === null) {
+      const previous = await db('revision').where({ dossier_id: current.dossierId }).where('number', '<', current.number).orderBy('number', 'desc').first('id');
+      againstId = previous?.id ?? null;
+    }
+    if (againstId === null) throw new AppError(404, 'not_found', 'This is the first revision; there is nothing to compare it with.');
+    const previous = await loadRevision(db, againstId);
+    if (previous.dossierId !== current.dossierId) {
+      throw new AppError(400, 'invalid_input', 'Compare revisions of the same dossier only.', [{ path: 'against', message: 'another dossier' }]);
+    }
+    res.json(diffRevisions(current, previous));
+  });
+
+  return router;
+}

@@ -1,0 +1,168 @@
+import { createHash } from 'node:crypto';
+import type { Knex } from 'knex';
+import type { DesignDraft, DischargeResult, Requirement } from '../../shared/schema/discharge';
+import type { WaveformAnalysis } from '../../shared/schema/waveform';
+import type { RevisionStatus } from '../../shared/schema/workflow';
+import { notFound } from '../errors';
+
+export interface Person {
+  id: string;
+  name: string;
+  email: string;
+}
+
+export interface EvidenceRecord {
+  id: number;
+  revisionId: number;
+  kind: 'waveform' | 'image' | 'datasheet' | 'report' | 'other';
+  originalName: string;
+  mediaType: string;
+  size: number;
+  sha256: string;
+  storageKey: string;
+  analysis: WaveformAnalysis | null;
+  uploadedBy: Person;
+  uploadedAt: string;
+}
+
+export interface DecisionRecord {
+  decision: 'approve' | 'return';
+  comment: string;
+  contentHash: string;
+  reviewer: Person;
+  at: string;
+}
+
+export interface Revision {
+  id: number;
+  dossierId: number;
+  number: number;
+  status: RevisionStatus;
+  design: DesignDraft;
+  notes: string;
+  results: DischargeResult;
+  engineVersion: string;
+  author: Person;
+  createdFrom: number | null;
+  contentHash: string | null;
+  createdAt: string;
+  updatedAt: string;
+  submittedAt: string | null;
+  decidedAt: string | null;
+  evidence: EvidenceRecord[];
+  decision: DecisionRecord | null;
+  comments: Array<{ id: number; author: Person; body: string; at: string }>;
+  signedPdf: { sha256: string; size: number; createdAt: string; signerKind: string } | null;
+}
+
+type Db = Knex | Knex.Transaction;
+
+async function people(db: Db, ids: string[]): Promise<Map<string, Person>> {
+  const rows = ids.length ? await db('user').whereIn('id', [...new Set(ids)]).select('id', 'name', 'email') : [];
+  return new Map(rows.map((r) => [r.id, { id: r.id, name: r.name, email: r.email }]));
+}
+
+const unknownPerson = (id: string): Person => ({ id, name: 'unknown user', email: '' });
+
+export async function loadEvidence(db: Db, revisionId: number): Promise<EvidenceRecord[]> {
+  const rows = await db('evidence').where({ revision_id: revisionId }).orderBy('id');
+  const who = await people(db, rows.map((r) => r.uploaded_by));
+  return rows.map((r) => ({
+    id: r.id,
+    revisionId: r.revision_id,
+    kind: r.kind,
+    originalName: r.original_name,
+    mediaType: r.media_type,
+    size: r.size,
+    sha256: r.sha256,
+    storageKey: r.storage_key,
+    analysis: r.analysis ? (JSON.parse(r.analysis) as WaveformAnalysis) : null,
+    uploadedBy: who.get(r.uploaded_by) ?? unknownPerson(r.uploaded_by),
+    uploadedAt: r.uploaded_at,
+  }));
+}
+
+export async function loadRevision(db: Db, id: number): Promise<Revision> {
+  const row = await db('revision').where({ id }).first();
+  if (!row) throw notFound('Revision');
+  const decisionRow = await db('review_decision').where({ revision_id: id }).first();
+  const commentRows = await db('review_comment').where({ revision_id: id }).orderBy('id');
+  const signed = await db('signed_dossier').where({ revision_id: id }).first();
+  const who = await people(db, [row.author_id, decisionRow?.reviewer_id, ...commentRows.map((c) => c.author_id)].filter(Boolean));
+  return {
+    id: row.id,
+    dossierId: row.dossier_id,
+    number: row.number,
+    status: row.status,
+    design: JSON.parse(row.design) as DesignDraft,
+    notes: row.notes,
+    results: JSON.parse(row.results) as DischargeResult,
+    engineVersion: row.engine_version,
+    author: who.get(row.author_id) ?? unknownPerson(row.author_id),
+    createdFrom: row.created_from,
+    contentHash: row.content_hash,
+    createdAt: row.created_at,
+    updatedAt: row.updated_at,
+    submittedAt: row.submitted_at,
+    decidedAt: row.decided_at,
+    evidence: await loadEvidence(db, id),
+    decision: decisionRow
+      ? {
+          decision: decisionRow.decision,
+          comment: decisionRow.comment,
+          contentHash: decisionRow.content_hash,
+          reviewer: who.get(decisionRow.reviewer_id) ?? unknownPerson(decisionRow.reviewer_id),
+          at: decisionRow.created_at,
+        }
+      : null,
+    comments: commentRows.map((c) => ({ id: c.id, author: who.get(c.author_id) ?? unknownPerson(c.author_id), body: c.body, at: c.created_at })),
+    signedPdf: signed ? { sha256: signed.sha256, size: signed.size, createdAt: signed.created_at, signerKind: signed.signer_kind } : null,
+  };
+}
+
+export interface DossierSummary {
+  id: number;
+  productId: number;
+  title: string;
+  requirement: Requirement;
+  createdBy: string;
+  createdAt: string;
+  product: { id: number; name: string; modelNumber: string };
+}
+
+export async function loadDossier(db: Db, id: number): Promise<DossierSummary> {
+  const row = await db('dossier').join('product', 'product.id', 'dossier.product_id').where('dossier.id', id)
+    .first('dossier.*', 'product.name as product_name', 'product.model_number as product_model');
+  if (!row) throw notFound('Dossier');
+  return {
+    id: row.id,
+    productId: row.product_id,
+    title: row.title,
+    requirement: JSON.parse(row.requirement) as Requirement,
+    createdBy: row.created_by,
+    createdAt: row.created_at,
+    product: { id: row.product_id, name: row.product_name, modelNumber: row.product_model },
+  };
+}
+
+/**
+ * SHA-256 of what a reviewer signs off: inputs, notes, results and the evidence list (by content
+ * hash). Key order is fixed by sorting, so the same content always gives the same hash.
+ */
+export function revisionContentHash(rev: Pick<Revision, 'dossierId' | 'number' | 'design' | 'notes' | 'results' | 'evidence'>): string {
+  const canonical = (v: unknown): unknown =>
+    Array.isArray(v)
+      ? v.map(canonical)
+      : v && typeof v === 'object'
+        ? Object.fromEntries(Object.keys(v).sort().map((k) => [k, canonical((v as Record<string, unknown>)[k])]))
+        : v;
+  const material = canonical({
+    dossierId: rev.dossierId,
+    number: rev.number,
+    design: rev.design,
+    notes: rev.notes,
+    results: rev.results,
+    evidence: rev.evidence.map((e) => ({ sha256: e.sha256, name: e.originalName, kind: e.kind })),
+  });
+  return createHash('sha256').update(JSON.stringify(material)).digest('hex');
+}

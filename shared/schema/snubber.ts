@@ -1,0 +1,129 @@
+// Wire format of the switching snubbers in a revision's design and of the sizing helper's input.
+// Numbers are SI base units (Ω, F, W, V, Hz, H, A, s); tolerances, derating and overshoot are fractions.
+// Bounds reject values no bench or datasheet would give, so a slipped prefix (Hz typed for MHz, F for pF)
+// fails on its own field instead of producing a confident but meaningless result.
+import { z } from 'zod';
+import { formatQuantity } from '../units';
+
+const positive = (what: string, min: number, max: number, unit: string) =>
+  z
+    .number({ error: `${what} must be a finite number` })
+    .refine((v) => v > 0, { error: `${what} must be greater than zero`, abort: true })
+    .refine((v) => v >= min && v <= max, {
+      error: `${what} must lie between ${formatQuantity(min, unit)} and ${formatQuantity(max, unit)}`,
+    });
+
+const fraction = (what: string, max: number) =>
+  z
+    .number({ error: `${what} must be a finite number` })
+    .min(0, { error: `${what} cannot be negative` })
+    .max(max, { error: `${what} must be at most ${max} (a fraction, not a percentage)` });
+
+/** Ring and switching frequencies a power stage can show. */
+export const FREQUENCY_RANGE = { min: 1e3, max: 1e10 } as const;
+/** Capacitances that make sense at a switching node or in a snubber. */
+export const CAPACITANCE_RANGE = { min: 1e-14, max: 1e-3 } as const;
+/** Allowed multiple of the parasitic capacitance for the suggested snubber capacitor. */
+export const MULTIPLE_RANGE = { min: 1, max: 20, default: 3.5 } as const;
+
+const frequency = (what: string) => positive(what, FREQUENCY_RANGE.min, FREQUENCY_RANGE.max, 'Hz');
+const capacitance = (what: string) =>
+  positive(what, CAPACITANCE_RANGE.min, CAPACITANCE_RANGE.max, 'F');
+
+export const snubberKinds = ['rc', 'rcd-turnoff', 'rcd-clamp'] as const;
+export type SnubberKind = (typeof snubberKinds)[number];
+
+const base = {
+  name: z.string().trim().min(1, { error: 'Give the snubber a name' }).max(120),
+  location: z.string().trim().max(500).default(''),
+  resistance: positive('Resistance', 1e-3, 1e9, 'Ω'),
+  capacitance: capacitance('Capacitance'),
+  capacitanceTolerance: fraction('Capacitance tolerance', 0.9),
+  powerRating: positive('Resistor power rating', 1e-3, 1e4, 'W'),
+  derating: fraction('Derating', 1).refine((v) => v > 0, {
+    error: 'Derating must be greater than zero (the fraction of the rating allowed)',
+  }),
+  capacitorVoltageRating: positive('Capacitor voltage rating', 1, 1e6, 'V'),
+  switchingVoltage: positive('Switching voltage', 1e-1, 1e6, 'V'),
+  overshoot: fraction('Overshoot', 10),
+  switchingFrequency: positive('Switching frequency', 1, FREQUENCY_RANGE.max, 'Hz'),
+  accessible: z.boolean().default(false),
+};
+
+export const rcSnubberSchema = z.object({
+  ...base,
+  kind: z.literal('rc'),
+  parasiticInductance: positive('Parasitic inductance', 1e-12, 1e-2, 'H').nullish(),
+  parasiticCapacitance: capacitance('Parasitic capacitance').nullish(),
+});
+
+export const rcdTurnoffSnubberSchema = z.object({
+  ...base,
+  kind: z.literal('rcd-turnoff'),
+  switchedCurrent: positive('Switched current', 1e-6, 1e5, 'A').nullish(),
+  fallTime: positive('Current fall time', 1e-12, 1e-2, 's').nullish(),
+  minOnTime: positive('Minimum on-time', 1e-12, 1, 's').nullish(),
+});
+
+export const rcdClampSnubberSchema = z
+  .object({
+    ...base,
+    kind: z.literal('rcd-clamp'),
+    leakageInductance: positive('Leakage inductance', 1e-12, 1e-1, 'H').nullish(),
+    peakCurrent: positive('Peak primary current', 1e-6, 1e5, 'A').nullish(),
+    clampVoltage: positive('Clamp voltage', 1e-1, 1e6, 'V').nullish(),
+    reflectedVoltage: positive('Reflected voltage', 1e-1, 1e6, 'V').nullish(),
+  })
+  .superRefine((s, ctx) => {
+    if (s.clampVoltage != null && s.reflectedVoltage != null && s.clampVoltage <= s.reflectedVoltage) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['clampVoltage'],
+        message: 'Clamp voltage must be above the reflected voltage, or the clamp conducts all the time',
+      });
+    }
+  });
+
+/** One snubber in a design (DESIGN.md §4.4 `design.snubbers[]`). */
+export const snubberSchema = z.discriminatedUnion('kind', [
+  rcSnubberSchema,
+  rcdTurnoffSnubberSchema,
+  rcdClampSnubberSchema,
+]);
+
+export const snubberListSchema = z.array(snubberSchema).max(50);
+
+export type RcSnubber = z.infer<typeof rcSnubberSchema>;
+export type RcdTurnoffSnubber = z.infer<typeof rcdTurnoffSnubberSchema>;
+export type RcdClampSnubber = z.infer<typeof rcdClampSnubberSchema>;
+export type Snubber = z.infer<typeof snubberSchema>;
+export type SnubberInput = z.input<typeof snubberSchema>;
+
+/** Sizing from a ringing measurement: ring frequency, added capacitance, the lowered ring frequency. */
+export const ringingInputSchema = z
+  .object({
+    f0: frequency('Ring frequency f0'),
+    cAdd: capacitance('Added capacitance'),
+    f1: frequency('Ring frequency with the added capacitance f1'),
+    multiple: z
+      .number({ error: 'Multiple must be a number' })
+      .min(MULTIPLE_RANGE.min, { error: `Multiple must be at least ${MULTIPLE_RANGE.min}` })
+      .max(MULTIPLE_RANGE.max, { error: `Multiple must be at most ${MULTIPLE_RANGE.max}` })
+      .default(MULTIPLE_RANGE.default),
+    /** Optional operating point for the resistor dissipation estimate C·V²·f_sw. */
+    switchingVoltage: positive('Switching voltage', 1e-1, 1e6, 'V').nullish(),
+    switchingFrequency: positive('Switching frequency', 1, FREQUENCY_RANGE.max, 'Hz').nullish(),
+  })
+  .superRefine((r, ctx) => {
+    // Adding capacitance can only lower the ring frequency; f1 ≥ f0 means swapped or mistyped readings.
+    if (r.f1 >= r.f0) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['f1'],
+        message: 'f1 must be below f0: adding capacitance lowers the ring frequency',
+      });
+    }
+  });
+
+export type RingingInput = z.infer<typeof ringingInputSchema>;
+export type RingingInputRaw = z.input<typeof ringingInputSchema>;
