@@ -3,6 +3,7 @@ import { auditRoutes } from './audit/routes';
 import { calcRoutes } from './calc/routes';
 import type { AppContext } from './context';
 import { dossierRoutes } from './dossiers/routes';
+import { evidenceRoutes } from './evidence/routes';
 import { overviewRoutes } from './overview/routes';
 import { productRoutes } from './products/routes';
 import { reviewRoutes } from './review/routes';
@@ -16,6 +17,7 @@ export function apiRoutes(ctx: AppContext): Router {
   router.use('/dossiers', dossierRoutes(ctx));
   router.use('/revisions', revisionRoutes(ctx));
   router.use(reviewRoutes(ctx));
+  router.use(evidenceRoutes(ctx));
   router.use('/audit', auditRoutes(ctx));
   router.use('/overview', overviewRoutes(ctx));
   return router;

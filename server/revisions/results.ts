@@ -1,11 +1,9 @@
-import { computeDischarge } from '../../shared/engine';
+import { computeRevisionResults as compute } from '../../shared/engine/revision-results';
 import type { DesignDraft, DischargeResult, Requirement } from '../../shared/schema/discharge';
 import type { EvidenceRecord } from './store';
 
-/**
- * The stored results of a revision: the discharge engine on its inputs, plus the checks its evidence
- * adds. Everything that contributes to a revision's verdict is gathered here, in one place.
- */
-export function computeRevisionResults(requirement: Requirement, design: DesignDraft, _evidence: readonly EvidenceRecord[]): DischargeResult {
-  return computeDischarge({ requirement, design });
+/** The stored results of a revision: its inputs plus the analysed captures among its evidence. */
+export function computeRevisionResults(requirement: Requirement, design: DesignDraft, evidence: readonly EvidenceRecord[]): DischargeResult {
+  const captures = evidence.filter((e) => e.analysis).map((e) => ({ name: e.originalName, analysis: e.analysis! }));
+  return compute(requirement, design, captures);
 }

@@ -20,6 +20,7 @@ interface Ids {
   dossierId: number;
   draftId: number;
   inReviewId: number;
+  evidenceId: number;
   userId: string;
 }
 
@@ -55,6 +56,10 @@ const TABLE: Row[] = [
   { method: 'get', path: () => '/api/reviews', expect: { anonymous: 401, admin: 200, reviewer: 200, signedIn: 403 } },
   { method: 'get', path: (i) => `/api/audit?dossierId=${i.dossierId}`, expect: { anonymous: 401, admin: 200, reviewer: 200, signedIn: 403 } },
   { method: 'get', path: () => '/api/overview', expect: { anonymous: 401, signedIn: 200 } },
+  // The draft is engineer2's: the engineer is refused as not the author, the admin reaches validation.
+  { method: 'post', path: (i) => `/api/revisions/${i.draftId}/evidence`, expect: { anonymous: 401, admin: 400, engineer: 403, signedIn: 403 } },
+  { method: 'get', path: (i) => `/api/evidence/${i.evidenceId}/file`, expect: { anonymous: 401, signedIn: 200 } },
+  { method: 'delete', path: () => '/api/evidence/999999', expect: { anonymous: 401, admin: 404, engineer: 404, signedIn: 403 } },
   { method: 'get', path: () => '/api/no-such-route', expect: { anonymous: 404, signedIn: 404 } },
 ];
 
@@ -74,13 +79,21 @@ beforeAll(async () => {
   await author.post(`/api/revisions/${first}/submit`);
   const other = (await author.post('/api/dossiers').send({ productId, title: 'Access table draft', requirement: demoRequirement })).body;
   const users = (await agents.get('admin')!.get('/api/users')).body as Array<{ id: string; email: string }>;
-  ids = { productId, dossierId: dossier.id, draftId: other.revisions[0].id, inReviewId: first, userId: users.find((u) => u.email === 'viewer@fennel.test')!.id };
+  const evidence = await author.post(`/api/revisions/${other.revisions[0].id}/evidence`).field('kind', 'other').attach('file', Buffer.from('bench log'), 'log.txt');
+  ids = {
+    productId,
+    dossierId: dossier.id,
+    draftId: other.revisions[0].id,
+    inReviewId: first,
+    evidenceId: evidence.body.id,
+    userId: users.find((u) => u.email === 'viewer@fennel.test')!.id,
+  };
 });
 afterAll(() => server.close());
 
 describe('access control table', () => {
   for (const row of TABLE) {
-    const label = `${row.method.toUpperCase()} ${row.path({ productId: 1, dossierId: 1, draftId: 1, inReviewId: 2, userId: ':id' })}`;
+    const label = `${row.method.toUpperCase()} ${row.path({ productId: 1, dossierId: 1, draftId: 1, inReviewId: 2, evidenceId: 1, userId: ':id' })}`;
     it(label, async () => {
       const got: Record<string, number> = {};
       const want: Record<string, number> = {};

@@ -1,0 +1,126 @@
+import { z } from 'zod';
+import { analysisOptionsSchema, channelRefSchema, type WaveformAnalysis } from '../../shared/schema/waveform';
+import { appendAudit } from '../audit/chain';
+import type { SignedInUser } from '../auth/middleware';
+import type { AppContext } from '../context';
+import { AppError, conflict, forbidden, notFound, validationError } from '../errors';
+import { assertCanEdit, refreshDraftResults } from '../revisions/domain';
+import { loadDossier, loadEvidence, loadRevision, type EvidenceRecord } from '../revisions/store';
+import { analyseCaptureFile, WaveformError } from './waveform/reader';
+import { sanitiseFileName, sniffMediaType, type EvidenceKind } from './sniff';
+import type { EvidenceStore, HashedFile } from './storage';
+
+export const uploadFieldsSchema = z.object({
+  kind: z.enum(['waveform', 'image', 'datasheet', 'report', 'other'], 'Choose waveform, image, datasheet, report or other.'),
+  channel: z.preprocess((v) => (v === '' || v === undefined ? undefined : /^\d+$/.test(String(v)) ? Number(v) : v), channelRefSchema.optional()),
+  markerChannel: z.preprocess((v) => (v === '' || v === undefined ? undefined : /^\d+$/.test(String(v)) ? Number(v) : v), channelRefSchema.optional()),
+  t0: z.preprocess((v) => (v === '' || v === undefined ? undefined : Number(v)), z.number().finite('t0 must be a number in seconds').optional()),
+});
+
+/** Before any byte is received: the revision must be a draft the user may change. */
+export async function assertMayAttach(ctx: AppContext, user: SignedInUser, revisionId: number): Promise<void> {
+  const rev = await loadRevision(ctx.db, revisionId);
+  assertCanEdit(user, rev);
+}
+
+/**
+ * attachEvidence: sniff the bytes, analyse a waveform, store the file under its hash, then in one
+ * transaction add the evidence row, recompute the draft's results and record the audit event. Any
+ * failure leaves neither a row nor a new file behind.
+ */
+export async function attachEvidence(
+  ctx: AppContext,
+  store: EvidenceStore,
+  user: SignedInUser,
+  revisionId: number,
+  upload: HashedFile & { originalName: string },
+  fields: unknown,
+): Promise<EvidenceRecord> {
+  let committed: { created: boolean } | null = null;
+  try {
+    const parsed = uploadFieldsSchema.safeParse(fields);
+    if (!parsed.success) throw validationError(parsed.error);
+    const { kind, channel, markerChannel, t0 } = parsed.data;
+    const limit = kind === 'waveform' ? ctx.config.uploadLimits.waveformBytes : ctx.config.uploadLimits.otherBytes;
+    if (upload.size > limit) {
+      throw new AppError(413, 'too_large', `A ${kind} file may be at most ${Math.round(limit / 1024 / 1024)} MB.`, [{ path: 'file', message: 'over the size limit' }]);
+    }
+    if (upload.size === 0) throw new AppError(422, 'empty_file', 'The file is empty.', [{ path: 'file', message: 'empty' }]);
+    const name = sanitiseFileName(upload.originalName);
+    const mediaType = await sniffMediaType(upload.path, kind as EvidenceKind, name);
+
+    const rev = await loadRevision(ctx.db, revisionId);
+    assertCanEdit(user, rev);
+    const dossier = await loadDossier(ctx.db, rev.dossierId);
+    let analysis: WaveformAnalysis | null = null;
+    const options = analysisOptionsSchema.parse({ safeVoltage: dossier.requirement.safeVoltage, maxTime: dossier.requirement.maxTime, channel, markerChannel, t0 });
+    if (kind === 'waveform') {
+      try {
+        analysis = await analyseCaptureFile(upload.path, options);
+      } catch (err) {
+        if (err instanceof WaveformError) throw new AppError(422, `capture_${err.code.toLowerCase()}`, err.message, [{ path: 'file', message: err.message }]);
+        throw err;
+      }
+    }
+
+    committed = await store.commit(upload.path, upload.sha256);
+    const id = await ctx.db.transaction(async (trx) => {
+      const current = await trx('revision').where({ id: revisionId }).first('status');
+      if (current?.status !== 'draft') throw conflict('The revision was submitted meanwhile; its evidence list is frozen.');
+      const [row] = await trx('evidence')
+        .insert({
+          revision_id: revisionId,
+          kind,
+          original_name: name,
+          media_type: mediaType,
+          size: upload.size,
+          sha256: upload.sha256,
+          storage_key: upload.sha256,
+          analysis: analysis ? JSON.stringify(analysis) : null,
+          analysis_options: analysis ? JSON.stringify(options) : null,
+          uploaded_by: user.id,
+          uploaded_at: new Date().toISOString(),
+        })
+        .returning('id');
+      await refreshDraftResults(trx, revisionId);
+      await appendAudit(trx, {
+        actorId: user.id,
+        action: 'evidence.add',
+        subjectType: 'evidence',
+        subjectId: row.id,
+        dossierId: rev.dossierId,
+        payload: { revisionId, name, kind, sha256: upload.sha256, size: upload.size },
+      });
+      return row.id as number;
+    });
+    return (await loadEvidence(ctx.db, revisionId)).find((e) => e.id === id)!;
+  } catch (err) {
+    await store.discard(upload.path);
+    // A file this upload created and no row refers to is removed again.
+    if (committed?.created && !(await ctx.db('evidence').where({ sha256: upload.sha256 }).first())) {
+      await store.discard(store.pathOf(upload.sha256));
+    }
+    throw err;
+  }
+}
+
+/** removeEvidence: only from a draft, only by its author (or an admin); the stored file stays for other revisions. */
+export async function removeEvidence(ctx: AppContext, user: SignedInUser, evidenceId: number): Promise<void> {
+  const row = await ctx.db('evidence').where({ id: evidenceId }).first();
+  if (!row) throw notFound('Evidence');
+  await ctx.db.transaction(async (trx) => {
+    const rev = await loadRevision(trx, row.revision_id);
+    if (rev.status !== 'draft') throw conflict(`Revision ${rev.number} is frozen; its evidence cannot be removed.`);
+    if (user.role !== 'admin' && rev.author.id !== user.id) throw forbidden('Only the author of this draft (or an admin) may remove its evidence.');
+    await trx('evidence').where({ id: evidenceId }).delete();
+    await refreshDraftResults(trx, rev.id);
+    await appendAudit(trx, {
+      actorId: user.id,
+      action: 'evidence.remove',
+      subjectType: 'evidence',
+      subjectId: evidenceId,
+      dossierId: rev.dossierId,
+      payload: { revisionId: rev.id, name: row.original_name, sha256: row.sha256 },
+    });
+  });
+}

@@ -1,0 +1,49 @@
+import { open } from 'node:fs/promises';
+import { fileTypeFromFile } from 'file-type';
+import { AppError } from '../errors';
+
+export type EvidenceKind = 'waveform' | 'image' | 'datasheet' | 'report' | 'other';
+
+const ACCEPTED: Record<Exclude<EvidenceKind, 'other'>, { mimes: string[]; words: string }> = {
+  waveform: { mimes: ['text/plain'], words: 'a text capture (CSV, TSV or TXT)' },
+  image: { mimes: ['image/png', 'image/jpeg'], words: 'a PNG or JPEG image' },
+  datasheet: { mimes: ['application/pdf'], words: 'a PDF' },
+  report: { mimes: ['application/pdf'], words: 'a PDF' },
+};
+
+/** True when the first bytes look like text: no NUL byte, as binary formats nearly always have one. */
+async function looksLikeText(path: string): Promise<boolean> {
+  const handle = await open(path, 'r');
+  try {
+    const buffer = Buffer.alloc(64 * 1024);
+    const { bytesRead } = await handle.read(buffer, 0, buffer.length, 0);
+    return !buffer.subarray(0, bytesRead).includes(0);
+  } finally {
+    await handle.close();
+  }
+}
+
+/**
+ * The media type from the bytes themselves, never from the file name; refuses a file whose bytes do
+ * not match the kind it was uploaded as.
+ */
+export async function sniffMediaType(path: string, kind: EvidenceKind, originalName: string): Promise<string> {
+  const detected = await fileTypeFromFile(path);
+  const mime = detected?.mime ?? ((await looksLikeText(path)) ? 'text/plain' : 'application/octet-stream');
+  if (kind === 'other') return mime;
+  const rule = ACCEPTED[kind];
+  if (!rule.mimes.includes(mime)) {
+    throw new AppError(422, 'wrong_content', `“${originalName}” is not ${rule.words}: its bytes look like ${mime}.`, [
+      { path: 'file', message: `expected ${rule.words}` },
+    ]);
+  }
+  return kind === 'waveform' ? (/\.tsv$/i.test(originalName) ? 'text/tab-separated-values' : /\.csv$/i.test(originalName) ? 'text/csv' : 'text/plain') : mime;
+}
+
+/** Keeps a file name as harmless metadata: no path, no control characters, bounded length. */
+export function sanitiseFileName(name: string): string {
+  const base = name.split(/[\\/]/).pop() ?? '';
+  // eslint-disable-next-line no-control-regex -- control characters are exactly what is removed.
+  const clean = base.replace(/[\u0000-\u001f\u007f]/g, '').replace(/^\.+/, '').trim().slice(0, 200);
+  return clean || 'unnamed';
+}

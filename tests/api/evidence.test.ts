@@ -1,0 +1,146 @@
+import { existsSync, readdirSync } from 'node:fs';
+import { request as httpRequest } from 'node:http';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { demoDesign, demoRequirement } from '../support/fixtures';
+import { startTestServer, type TestServer } from '../support/test-server';
+
+let server: TestServer;
+beforeAll(async () => {
+  // Small limits so "over the limit" is cheap to test; the logic is the same at 512 MB.
+  server = await startTestServer({}, { UPLOAD_LIMIT_WAVEFORM_MB: '2', UPLOAD_LIMIT_OTHER_MB: '0.5' });
+});
+afterAll(() => server.close());
+
+/** An RC decay V0·e^(−t/τ) after a pre-trigger plateau (common practice: the shape of a bleeder discharge). */
+function capture(v0: number, tau: number, seconds: number, rows = 4000): string {
+  const lines = ['Record length,4000', 'Sample interval,' + (seconds / rows).toExponential(6), 'Time (s),CH1 (V)'];
+  for (let i = 0; i < rows; i++) {
+    const t = -0.1 * seconds + (i * 1.1 * seconds) / rows;
+    lines.push(`${t.toExponential(6)},${(t < 0 ? v0 : v0 * Math.exp(-t / tau)).toExponential(6)}`);
+  }
+  return lines.join('\n') + '\n';
+}
+
+async function draft(title: string) {
+  const engineer = await server.signIn('engineer');
+  const products = (await engineer.get('/api/products')).body;
+  const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title, requirement: demoRequirement })).body;
+  const id = dossier.revisions[0].id as number;
+  await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign });
+  return { engineer, id };
+}
+
+const evidenceFiles = () => readdirSync(join(server.dataDir, 'evidence')).filter((f) => f !== 'tmp');
+const tmpFiles = () => readdirSync(join(server.dataDir, 'evidence', 'tmp'));
+
+describe('evidence uploads', () => {
+  it('when a capture is uploaded to a draft, then it is analysed and a measured check joins the verdict', async () => {
+    const { engineer, id } = await draft('Capture story');
+    // τ = 1.5 s from 622 V: 60 V is reached at 1.5·ln(622/60) = 3.508 s (V0·e^(−t/τ), common practice).
+    const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(622, 1.5, 8)), 'bench-01.csv');
+    expect(res.status).toBe(201);
+    expect(res.body.sha256).toMatch(/^[0-9a-f]{64}$/);
+    expect(res.body.mediaType).toBe('text/csv');
+    expect(res.body.analysis.timeToSafe).toBeCloseTo(1.5 * Math.log(622 / 60), 1);
+    expect(res.body.analysis.tau).toBeCloseTo(1.5, 1);
+    const rev = (await engineer.get(`/api/revisions/${id}`)).body;
+    const measured = rev.results.checks.find((c: { id: string }) => c.id === 'measured-discharge');
+    expect(measured).toBeTruthy();
+    expect(measured.pass).toBe(true);
+    expect(existsSync(join(server.dataDir, 'evidence', res.body.sha256))).toBe(true);
+  });
+
+  it('when a capture never reaches the safe voltage, then it is stored as a failing measurement, not an error', async () => {
+    const { engineer, id } = await draft('Slow capture');
+    const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(622, 50, 8)), 'slow.csv');
+    expect(res.status).toBe(201);
+    expect(res.body.analysis.timeToSafe).toBeNull();
+    const rev = (await engineer.get(`/api/revisions/${id}`)).body;
+    expect(rev.results.verdict).toBe('fails');
+    expect(rev.results.checks.find((c: { id: string }) => c.id === 'measured-discharge').pass).toBe(false);
+  });
+
+  it('when the same file is uploaded twice, then its bytes are stored once', async () => {
+    const { engineer, id } = await draft('Twice');
+    const body = Buffer.from(capture(400, 0.7, 5));
+    const a = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', body, 'a.csv');
+    const b = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', body, 'b.csv');
+    expect(a.body.sha256).toBe(b.body.sha256);
+    expect(evidenceFiles().filter((f) => f === a.body.sha256)).toHaveLength(1);
+  });
+
+  it('when bad files arrive, then each gets a clear message and nothing is left behind', async () => {
+    const { engineer, id } = await draft('Bad files');
+    const before = evidenceFiles().length;
+    const cases: Array<[string, Buffer, string, number, RegExp]> = [
+      ['waveform', Buffer.alloc(0), 'empty.csv', 422, /empty/i],
+      ['waveform', Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52]), 'renamed.csv', 422, /not a text capture/],
+      ['waveform', Buffer.from('name,comment\nfoo,bar\nbaz,qux\n'), 'words.csv', 422, /.+/],
+      ['waveform', Buffer.from('t,v\n0,600\n0.2,400\n0.1,300\n0.3,200\n0.4,100\n'), 'backwards.csv', 422, /.+/],
+      ['image', Buffer.from('just text'), 'photo.jpg', 422, /not a PNG or JPEG/],
+      ['report', Buffer.from('%PDX not really'), 'report.pdf', 422, /not a PDF/],
+    ];
+    for (const [kind, bytes, name, status, message] of cases) {
+      const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', kind).attach('file', bytes, name);
+      expect(res.status, name).toBe(status);
+      expect(res.body.error.message, name).toMatch(message);
+    }
+    const rev = (await engineer.get(`/api/revisions/${id}`)).body;
+    expect(rev.evidence).toHaveLength(0);
+    expect(evidenceFiles().length).toBe(before);
+    expect(tmpFiles()).toEqual([]);
+  });
+
+  it('when a file is over its kind\'s limit, then 413 and nothing is kept', async () => {
+    const { engineer, id } = await draft('Too big');
+    const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'other').attach('file', Buffer.alloc(700 * 1024, 65), 'big.txt');
+    expect(res.status).toBe(413);
+    const huge = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.alloc(3 * 1024 * 1024, 65), 'huge.csv');
+    expect(huge.status).toBe(413);
+    expect(tmpFiles()).toEqual([]);
+    expect((await engineer.get(`/api/revisions/${id}`)).body.evidence).toHaveLength(0);
+  });
+
+  it('when a client declares a 2 GB upload, then it is refused before the body is read and the server stays healthy', async () => {
+    const { id } = await draft('Two gigabytes');
+    const signIn = await server.anonymous().post('/api/auth/sign-in').send({ email: 'engineer@fennel.test', password: 'voltfall-demo' });
+    const jar = String(signIn.headers['set-cookie']).split(';')[0];
+    const status = await new Promise<number>((resolve, reject) => {
+      const req = httpRequest(`${server.url}/api/revisions/${id}/evidence`, {
+        method: 'POST',
+        headers: { 'Content-Type': 'multipart/form-data; boundary=x', 'Content-Length': String(2 * 1024 ** 3), Origin: server.url, Cookie: jar },
+      });
+      req.on('response', (res) => resolve(res.statusCode ?? 0));
+      req.on('error', reject);
+      req.write(Buffer.alloc(64 * 1024));
+    });
+    expect(status).toBe(413);
+    expect((await server.anonymous().get('/api/health')).body).toEqual({ ok: true });
+  });
+
+  it('when a revision is submitted, then evidence can be neither added nor removed', async () => {
+    const { engineer, id } = await draft('Frozen evidence');
+    const up = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(622, 1.2, 6)), 'x.csv');
+    await engineer.post(`/api/revisions/${id}/submit`);
+    const add = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(622, 1.1, 6)), 'y.csv');
+    expect(add.status).toBe(409);
+    const del = await engineer.delete(`/api/evidence/${up.body.id}`);
+    expect(del.status).toBe(409);
+  });
+
+  it('when evidence is downloaded, then the stored bytes come back with the sniffed type', async () => {
+    const { engineer, id } = await draft('Download');
+    const text = capture(300, 0.4, 3);
+    const up = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(text), '../../etc/evil name.csv');
+    expect(up.body.originalName).toBe('evil name.csv');
+    const viewer = await server.signIn('viewer');
+    const file = await viewer.get(`/api/evidence/${up.body.id}/file`).buffer(true).parse((res, cb) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(file.status).toBe(200);
+    expect((file.body as Buffer).toString()).toBe(text);
+  });
+});
