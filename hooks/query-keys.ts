@@ -1,5 +1,6 @@
 // Every query key in one place, so a mutation knows exactly what to invalidate.
 import type { RingingInputRaw } from '../shared/schema/snubber';
+import type { DischargeInput } from '../shared/schema/discharge';
 
 export const keys = {
   me: ['me'] as const,
@@ -15,4 +16,6 @@ export const keys = {
   audit: (dossierId: number) => ['audit', dossierId] as const,
   invite: (token: string) => ['invite', token] as const,
   snubberSizing: (input: RingingInputRaw | null) => ['calc', 'snubber', input] as const,
+  /** One stateless discharge check per input; the input itself is the key. */
+  calcDischarge: (input: DischargeInput | null) => ['calc', 'discharge', input] as const,
 };

@@ -36,7 +36,7 @@ export const TextField = forwardRef<TextInput, Props>(function TextField({ label
 });
 
 const styles = StyleSheet.create({
-  wrap: { gap: space.xs, flexGrow: 1, flexBasis: 0, minWidth: 140 },
+  wrap: { gap: space.xs, flexGrow: 1, minWidth: 140 },
   input: {
     minHeight: 44,
     borderWidth: 1,

@@ -1,0 +1,119 @@
+import { Link, useRouter } from 'expo-router';
+import { useMemo, useState } from 'react';
+import { Pressable, StyleSheet, Text, useWindowDimensions, View } from 'react-native';
+import { StatusBadge, VerdictBadge } from '../../../components/status';
+import { formatWhen } from '../../../components/revision-list';
+import { Button } from '../../../components/ui/button';
+import { Card } from '../../../components/ui/card';
+import { Choice } from '../../../components/ui/choice';
+import { Message } from '../../../components/ui/message';
+import { Screen } from '../../../components/ui/screen';
+import { colors, fonts, space, type, WIDE_BREAKPOINT } from '../../../constants/theme';
+import { formatQuantity } from '../../../shared/units';
+import type { DossierListItem } from '../../../hooks/types';
+import { useDossiers } from '../../../hooks/use-dossiers';
+import { useMe } from '../../../hooks/use-me';
+
+type SortKey = 'updated' | 'status' | 'title';
+const STATUS_ORDER = { returned: 0, draft: 1, in_review: 2, approved: 3 } as const;
+
+function sortDossiers(list: DossierListItem[], key: SortKey): DossierListItem[] {
+  const copy = [...list];
+  if (key === 'title') return copy.sort((a, b) => a.title.localeCompare(b.title));
+  if (key === 'status') return copy.sort((a, b) => (a.latest ? STATUS_ORDER[a.latest.status] : 9) - (b.latest ? STATUS_ORDER[b.latest.status] : 9));
+  return copy.sort((a, b) => (b.latest?.updatedAt ?? '').localeCompare(a.latest?.updatedAt ?? ''));
+}
+
+const limitText = (d: DossierListItem) => `${formatQuantity(d.requirement.safeVoltage, 'V')} within ${formatQuantity(d.requirement.maxTime, 's')}`;
+
+export default function DossiersScreen() {
+  const me = useMe().data!;
+  const router = useRouter();
+  const dossiers = useDossiers();
+  const [sort, setSort] = useState<SortKey>('updated');
+  const wide = useWindowDimensions().width >= WIDE_BREAKPOINT;
+  const sorted = useMemo(() => sortDossiers(dossiers.data ?? [], sort), [dossiers.data, sort]);
+  const canCreate = me.role === 'engineer' || me.role === 'admin';
+
+  return (
+    <Screen
+      title="Dossiers"
+      subtitle="One dossier per requirement to prove, with its revisions."
+      testID="dossiers-screen"
+      actions={canCreate ? <Button label="New dossier" testID="new-dossier" onPress={() => router.push('/dossiers/new')} /> : null}
+    >
+      <Choice
+        label="Sort by"
+        testID="dossier-sort"
+        value={sort}
+        onChange={setSort}
+        options={[
+          { value: 'updated', label: 'Last change' },
+          { value: 'status', label: 'Status' },
+          { value: 'title', label: 'Title' },
+        ]}
+      />
+      {dossiers.isError ? <Message tone="error" text={dossiers.error.message} /> : null}
+      {dossiers.data && sorted.length === 0 ? <Message text="No dossiers yet." /> : null}
+      {wide ? (
+        <Card>
+          <View style={[styles.tr, styles.th]}>
+            <Text style={[styles.cell, styles.c3, styles.head]}>Dossier</Text>
+            <Text style={[styles.cell, styles.c2, styles.head]}>Product</Text>
+            <Text style={[styles.cell, styles.c2, styles.head]}>Limit</Text>
+            <Text style={[styles.cell, styles.c1, styles.head]}>Latest</Text>
+            <Text style={[styles.cell, styles.c2, styles.head]}>Status</Text>
+            <Text style={[styles.cell, styles.c2, styles.head]}>Last change</Text>
+          </View>
+          {sorted.map((d) => (
+            <Link key={d.id} href={`/dossiers/${d.id}`} asChild>
+              <Pressable style={styles.tr} testID={`dossier-row-${d.id}`}>
+                <Text style={[styles.cell, styles.c3, styles.title]}>{d.title}</Text>
+                <Text style={[styles.cell, styles.c2]}>{d.product.name}</Text>
+                <Text style={[styles.cell, styles.c2]}>{limitText(d)}</Text>
+                <Text style={[styles.cell, styles.c1]}>{d.latest ? `rev ${d.latest.number}` : '—'}</Text>
+                <View style={[styles.c2, styles.badges]}>
+                  {d.latest ? <StatusBadge status={d.latest.status} /> : null}
+                  {d.latest ? <VerdictBadge verdict={d.latest.verdict} /> : null}
+                </View>
+                <Text style={[styles.cell, styles.c2]}>{formatWhen(d.latest?.updatedAt ?? null)}</Text>
+              </Pressable>
+            </Link>
+          ))}
+        </Card>
+      ) : (
+        sorted.map((d) => (
+          <Link key={d.id} href={`/dossiers/${d.id}`} asChild>
+            <Pressable testID={`dossier-card-${d.id}`}>
+              <Card title={d.title}>
+                <Text style={type.small}>
+                  {d.product.name} · {limitText(d)}
+                </Text>
+                {d.latest ? (
+                  <View style={styles.badges}>
+                    <Text style={type.small}>Revision {d.latest.number}</Text>
+                    <StatusBadge status={d.latest.status} />
+                    <VerdictBadge verdict={d.latest.verdict} />
+                  </View>
+                ) : null}
+                <Text style={type.small}>Last change {formatWhen(d.latest?.updatedAt ?? null)}</Text>
+              </Card>
+            </Pressable>
+          </Link>
+        ))
+      )}
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  tr: { flexDirection: 'row', alignItems: 'center', paddingVertical: space.sm, borderTopWidth: 1, borderTopColor: colors.line, gap: space.sm },
+  th: { borderTopWidth: 0 },
+  head: { fontFamily: fonts.semibold, color: colors.inkMuted, fontSize: 12, textTransform: 'uppercase' },
+  cell: { ...type.body, fontSize: 14 },
+  title: { fontFamily: fonts.semibold },
+  c1: { flex: 1 },
+  c2: { flex: 2 },
+  c3: { flex: 3 },
+  badges: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs, alignItems: 'center' },
+});

@@ -1,0 +1,66 @@
+import { Link, useLocalSearchParams } from 'expo-router';
+import { useState } from 'react';
+import { StyleSheet, Text, View } from 'react-native';
+import { RevisionChanges } from '../../../components/revision-changes';
+import { RevisionDesign } from '../../../components/revision-design';
+import { RevisionEvidence } from '../../../components/revision-evidence';
+import { RevisionReview } from '../../../components/revision-review';
+import { StatusBadge, VerdictBadge } from '../../../components/status';
+import { Tabs } from '../../../components/tabs';
+import { Message } from '../../../components/ui/message';
+import { Screen } from '../../../components/ui/screen';
+import { colors, fonts, space, type } from '../../../constants/theme';
+import { useMe } from '../../../hooks/use-me';
+import { useRevision } from '../../../hooks/use-revision';
+
+type Tab = 'design' | 'evidence' | 'changes' | 'review';
+const TABS: ReadonlyArray<{ key: Tab; label: string }> = [
+  { key: 'design', label: 'Design' },
+  { key: 'evidence', label: 'Evidence' },
+  { key: 'changes', label: 'Changes' },
+  { key: 'review', label: 'Review' },
+];
+
+export default function RevisionScreen() {
+  const params = useLocalSearchParams<{ id: string; tab?: Tab }>();
+  const id = Number(params.id);
+  const me = useMe().data!;
+  const revision = useRevision(id);
+  const [tab, setTab] = useState<Tab>(params.tab ?? 'design');
+
+  if (revision.isError) return <Screen title="Revision" testID="revision-screen"><Message tone="error" text={revision.error.message} /></Screen>;
+  if (!revision.data) return <Screen title="Revision" testID="revision-screen"><Text style={type.body}>Loading…</Text></Screen>;
+  const rev = revision.data;
+
+  return (
+    <Screen
+      title={`Revision ${rev.number}`}
+      subtitle={`${rev.dossier.title} · ${rev.dossier.product.name}`}
+      testID="revision-screen"
+      showCaution
+      actions={
+        <a href={`/api/revisions/${rev.id}/dossier.pdf`} download={`voltfall-dossier-${rev.dossierId}-rev${rev.number}.pdf`} data-testid="export-pdf" style={{ color: colors.surface, backgroundColor: colors.brand, fontFamily: fonts.semibold, padding: '11px 16px', borderRadius: 8, textDecoration: 'none' }}>
+          {rev.status === 'approved' ? 'Export signed PDF' : 'Export draft PDF'}
+        </a>
+      }
+    >
+      <View style={styles.head}>
+        <StatusBadge status={rev.status} testID="revision-status" />
+        <VerdictBadge verdict={rev.results.verdict} testID="revision-verdict" />
+        <Link href={`/dossiers/${rev.dossierId}`} style={styles.link} testID="to-dossier">
+          All revisions of this dossier
+        </Link>
+      </View>
+      <Tabs tabs={TABS} value={tab} onChange={setTab} testID="revision-tabs" />
+      {tab === 'design' ? <RevisionDesign key={`${rev.id}-${rev.status}`} revision={rev} me={me} /> : null}
+      {tab === 'evidence' ? <RevisionEvidence revision={rev} me={me} /> : null}
+      {tab === 'changes' ? <RevisionChanges revision={rev} /> : null}
+      {tab === 'review' ? <RevisionReview revision={rev} me={me} /> : null}
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  head: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' },
+  link: { fontFamily: fonts.semibold, color: colors.info, textDecorationLine: 'underline' },
+});

@@ -1,0 +1,104 @@
+import { StyleSheet, Text, View } from 'react-native';
+import { colors, fonts, radius, space, type } from '../constants/theme';
+import { formatQuantity } from '../shared/units';
+import type { Revision } from '../hooks/types';
+import { useRevisionDiff } from '../hooks/use-revision';
+import { VerdictBadge } from './status';
+import { Badge } from './ui/badge';
+import { Card } from './ui/card';
+import { Message } from './ui/message';
+
+const show = (side: { value: number | null; unit: string; pass: boolean } | null) =>
+  side ? `${side.value === null ? '—' : formatQuantity(side.value, side.unit)} (${side.pass ? 'pass' : 'fail'})` : '—';
+
+const KIND_WORDS = { 'now-fails': 'Now fails', 'now-passes': 'Now passes', 'value-changed': 'Value changed', added: 'New check', removed: 'Check removed' } as const;
+
+/** What changed since the revision this one came from: inputs in units, checks, notes, evidence. */
+export function RevisionChanges({ revision }: { revision: Revision }) {
+  const hasPrevious = revision.number > 1;
+  const diff = useRevisionDiff(revision.id, hasPrevious);
+  if (!hasPrevious) return <Message text="Revision 1 has nothing to compare with." testID="changes-none" />;
+  if (diff.isError) return <Message tone="error" text={diff.error.message} />;
+  if (!diff.data) return <Text style={type.body}>Comparing…</Text>;
+  const d = diff.data;
+  return (
+    <View style={styles.wrap} testID="changes">
+      <Text style={type.small}>
+        Revision {d.revision.number} compared with revision {d.against.number}.
+      </Text>
+      {d.verdict ? (
+        <Card title="Verdict changed" testID="changes-verdict">
+          <View style={styles.inline}>
+            <VerdictBadge verdict={d.verdict.from} />
+            <Text style={type.body}>→</Text>
+            <VerdictBadge verdict={d.verdict.to} />
+          </View>
+        </Card>
+      ) : null}
+      <Card title={`Inputs (${d.inputs.length} changed)`} testID="changes-inputs">
+        {d.inputs.length === 0 ? <Text style={type.body}>No input changed.</Text> : null}
+        {d.inputs.map((c) => (
+          <View key={c.path} style={styles.line} testID={`change-${c.path}`}>
+            <Text style={styles.label}>{c.label}</Text>
+            <Text style={type.body}>
+              {c.from} → <Text style={styles.strong}>{c.to}</Text>
+              {c.changePct !== null ? `  (${c.changePct > 0 ? '+' : ''}${c.changePct.toFixed(1)} %)` : ''}
+            </Text>
+          </View>
+        ))}
+      </Card>
+      <Card title={`Checks (${d.checks.length} changed)`} testID="changes-checks">
+        {d.checks.length === 0 ? <Text style={type.body}>No check result changed.</Text> : null}
+        {d.checks.map((c) => (
+          <View key={c.id} style={[styles.line, c.kind === 'now-fails' && styles.alarm]} testID={`check-change-${c.id}`}>
+            <View style={styles.inline}>
+              <Badge label={KIND_WORDS[c.kind]} tone={c.kind === 'now-fails' ? 'fail' : c.kind === 'now-passes' ? 'pass' : 'neutral'} />
+              <Text style={styles.label}>{c.label}</Text>
+            </View>
+            <Text style={type.body}>
+              {show(c.from)} → <Text style={styles.strong}>{show(c.to)}</Text>
+            </Text>
+          </View>
+        ))}
+      </Card>
+      <Card title="Notes" testID="changes-notes">
+        {!d.notes.changed ? <Text style={type.body}>Notes unchanged.</Text> : null}
+        {d.notes.changed
+          ? d.notes.parts.map((p, i) => (
+              <Text key={i} style={[type.mono, p.added && styles.added, p.removed && styles.removed]}>
+                {p.value
+                  .replace(/\n$/, '')
+                  .split('\n')
+                  .map((l) => `${p.added ? '+ ' : p.removed ? '− ' : '  '}${l}`)
+                  .join('\n')}
+              </Text>
+            ))
+          : null}
+      </Card>
+      <Card title="Evidence" testID="changes-evidence">
+        {d.evidence.added.length === 0 && d.evidence.removed.length === 0 ? <Text style={type.body}>Same evidence files.</Text> : null}
+        {d.evidence.added.map((e) => (
+          <Text key={`a${e.sha256}`} style={type.body}>
+            + {e.name} ({e.kind}) <Text style={type.mono}>{e.sha256.slice(0, 16)}…</Text>
+          </Text>
+        ))}
+        {d.evidence.removed.map((e) => (
+          <Text key={`r${e.sha256}`} style={type.body}>
+            − {e.name} ({e.kind}) <Text style={type.mono}>{e.sha256.slice(0, 16)}…</Text>
+          </Text>
+        ))}
+      </Card>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  wrap: { gap: space.lg },
+  line: { paddingVertical: space.sm, borderTopWidth: 1, borderTopColor: colors.line, gap: 2 },
+  alarm: { backgroundColor: colors.failSoft, paddingHorizontal: space.sm, borderRadius: radius.sm },
+  inline: { flexDirection: 'row', gap: space.sm, alignItems: 'center', flexWrap: 'wrap' },
+  label: { fontFamily: fonts.semibold, fontSize: 14, color: colors.ink },
+  strong: { fontFamily: fonts.bold },
+  added: { backgroundColor: colors.passSoft, color: colors.pass },
+  removed: { backgroundColor: colors.failSoft, color: colors.fail, textDecorationLine: 'line-through' },
+});

@@ -1,0 +1,133 @@
+import { useEffect, useRef, useState } from 'react';
+import { StyleSheet, Text, useWindowDimensions, View } from 'react-native';
+import { colors, space, type, WIDE_BREAKPOINT } from '../constants/theme';
+import type { DesignDraft } from '../shared/schema/discharge';
+import type { Snubber } from '../shared/schema/snubber';
+import { formatQuantity } from '../shared/units';
+import { ApiError, type FieldError } from '../hooks/api';
+import type { Revision } from '../hooks/types';
+import type { Me } from '../hooks/use-me';
+import { useSaveRevision } from '../hooks/use-revision';
+import { DesignEditor } from './design-editor';
+import { ResultsPanel } from './results-panel';
+import { SnubberListEditor } from './snubber-list-editor';
+import { Card } from './ui/card';
+import { Message } from './ui/message';
+import { TextField } from './ui/text-field';
+
+const SAVE_DELAY_MS = 800;
+
+/** Measured traces, shifted so t = 0 is the disconnect instant like the predicted curves. */
+export function measuredTraces(revision: Pick<Revision, 'evidence'>) {
+  return revision.evidence
+    .filter((e) => e.analysis)
+    .map((e) => ({ name: e.originalName, trace: e.analysis!.trace.map((p) => ({ t: p.t - e.analysis!.t0, v: p.v })).filter((p) => p.t >= 0) }));
+}
+
+/** The Design tab: inputs and notes (saved as they are typed, while a draft), and the server's results. */
+export function RevisionDesign({ revision, me }: { revision: Revision; me: Me }) {
+  const editable = revision.status === 'draft' && (revision.author.id === me.id || me.role === 'admin');
+  const save = useSaveRevision(revision.id);
+  const [design, setDesign] = useState<DesignDraft>(revision.design);
+  const [notes, setNotes] = useState(revision.notes);
+  const [errors, setErrors] = useState<FieldError[]>([]);
+  const [savedAt, setSavedAt] = useState<string | null>(null);
+  const timer = useRef<ReturnType<typeof setTimeout> | null>(null);
+  const wide = useWindowDimensions().width >= WIDE_BREAKPOINT;
+
+  useEffect(() => () => {
+    if (timer.current) clearTimeout(timer.current);
+  }, []);
+
+  function schedule(next: { design?: DesignDraft; notes?: string }) {
+    if (!editable) return;
+    if (timer.current) clearTimeout(timer.current);
+    timer.current = setTimeout(() => {
+      save.mutate(
+        { design: next.design ?? design, notes: next.notes ?? notes },
+        {
+          onSuccess: (rev) => {
+            setErrors([]);
+            setSavedAt(rev.updatedAt);
+          },
+          onError: (err) => setErrors(err instanceof ApiError ? err.fields : []),
+        },
+      );
+    }, SAVE_DELAY_MS);
+  }
+
+  const saveState = save.isPending
+    ? 'Saving…'
+    : save.isError
+      ? `Not saved: ${save.error.message}`
+      : savedAt
+        ? `Saved ${new Date(savedAt).toLocaleTimeString()}`
+        : editable
+          ? 'Changes save as you type.'
+          : `Frozen: ${revision.status.replace('_', ' ')}.`;
+
+  return (
+    <View style={[styles.columns, wide && styles.wide]} testID="design-tab">
+      <View style={[styles.col, wide && styles.inputs]}>
+        <Card title="Requirement (from the dossier)">
+          <Text style={type.body}>
+            At most {formatQuantity(revision.dossier.requirement.safeVoltage, 'V')} within {formatQuantity(revision.dossier.requirement.maxTime, 's')}
+          </Text>
+          {revision.dossier.requirement.reference ? <Text style={type.small}>Worked to: {revision.dossier.requirement.reference}</Text> : null}
+        </Card>
+        <Text style={[type.small, save.isError && styles.error]} testID="save-state">
+          {saveState}
+        </Text>
+        {errors.length ? <Message tone="error" text="Some inputs were not accepted; see the marked fields." /> : null}
+        <DesignEditor
+          value={design}
+          readOnly={!editable}
+          testIDPrefix="rev"
+          serverErrors={errors}
+          onChange={(next) => {
+            setDesign(next);
+            schedule({ design: next });
+          }}
+        />
+        <Card title="Snubbers">
+          <SnubberListEditor
+            value={(design.snubbers ?? []) as Snubber[]}
+            readOnly={!editable}
+            testIDPrefix="rev-snubbers"
+            serverErrors={errors}
+            onChange={(list) => {
+              const next = { ...design, snubbers: list as Snubber[] };
+              setDesign(next);
+              schedule({ design: next });
+            }}
+          />
+        </Card>
+        <Card title="Notes">
+          <TextField
+            label="Engineering notes (plain text or markdown)"
+            testID="rev-notes"
+            multiline
+            editable={editable}
+            value={notes}
+            onChangeText={(text) => {
+              setNotes(text);
+              schedule({ notes: text });
+            }}
+          />
+        </Card>
+      </View>
+      <View style={[styles.col, wide && styles.results]}>
+        <ResultsPanel result={revision.results} requirement={revision.dossier.requirement} measured={measuredTraces(revision)} testIDPrefix="rev" />
+      </View>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  columns: { gap: space.lg },
+  wide: { flexDirection: 'row', alignItems: 'flex-start' },
+  col: { gap: space.lg },
+  inputs: { flex: 5 },
+  results: { flex: 6 },
+  error: { color: colors.fail },
+});

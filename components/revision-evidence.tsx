@@ -1,0 +1,131 @@
+import * as DocumentPicker from 'expo-document-picker';
+import { useState } from 'react';
+import { StyleSheet, Text, View } from 'react-native';
+import { colors, fonts, radius, space, type } from '../constants/theme';
+import { formatQuantity } from '../shared/units';
+import type { Revision } from '../hooks/types';
+import type { Me } from '../hooks/use-me';
+import { useRemoveEvidence, useUploadEvidence, type EvidenceKind } from '../hooks/use-evidence';
+import { DecayChart } from './decay-chart';
+import { measuredTraces } from './revision-design';
+import { formatWhen } from './revision-list';
+import { Badge } from './ui/badge';
+import { Button } from './ui/button';
+import { Card } from './ui/card';
+import { Choice } from './ui/choice';
+import { Message } from './ui/message';
+
+const KINDS: Array<{ value: EvidenceKind; label: string }> = [
+  { value: 'waveform', label: 'Scope capture (CSV/TXT)' },
+  { value: 'image', label: 'Photo / image' },
+  { value: 'datasheet', label: 'Datasheet (PDF)' },
+  { value: 'report', label: 'Test report (PDF)' },
+  { value: 'other', label: 'Other' },
+];
+
+const PICKER_TYPES: Record<EvidenceKind, string[]> = {
+  waveform: ['text/csv', 'text/plain', 'text/tab-separated-values', '.csv', '.txt', '.tsv'],
+  image: ['image/*'],
+  datasheet: ['application/pdf'],
+  report: ['application/pdf'],
+  other: ['*/*'],
+};
+
+const bytes = (n: number) => (n >= 1024 * 1024 ? `${(n / 1024 / 1024).toFixed(1)} MB` : n >= 1024 ? `${(n / 1024).toFixed(0)} kB` : `${n} B`);
+
+/** The Evidence tab: files with their hashes, waveform analyses, and the measured-versus-predicted chart. */
+export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me }) {
+  const editable = revision.status === 'draft' && (revision.author.id === me.id || me.role === 'admin');
+  const [kind, setKind] = useState<EvidenceKind>('waveform');
+  const upload = useUploadEvidence(revision.id, revision.dossierId);
+  const remove = useRemoveEvidence(revision.id);
+  const measured = measuredTraces(revision);
+
+  async function pick() {
+    const picked = await DocumentPicker.getDocumentAsync({ type: PICKER_TYPES[kind], multiple: false, copyToCacheDirectory: false });
+    const asset = picked.canceled ? null : picked.assets[0];
+    if (asset?.file) upload.mutate({ file: asset.file, name: asset.name, kind });
+  }
+
+  return (
+    <View style={styles.wrap} testID="evidence-tab">
+      {editable ? (
+        <Card title="Add evidence">
+          <Choice label="Kind" testID="evidence-kind" options={KINDS} value={kind} onChange={setKind} />
+          {upload.progress !== null ? (
+            <View style={styles.progress} testID="upload-progress">
+              <View style={[styles.bar, { width: `${Math.round(upload.progress * 100)}%` }]} />
+              <Text style={type.small}>Uploading… {Math.round(upload.progress * 100)} %</Text>
+            </View>
+          ) : null}
+          {upload.error ? <Message tone="error" text={upload.error.message} testID="upload-error" /> : null}
+          <View style={styles.button}>
+            <Button label="Choose a file" testID="choose-file" busy={upload.isPending} onPress={pick} />
+          </View>
+        </Card>
+      ) : (
+        <Message text={revision.status === 'draft' ? 'Only the author adds evidence to this draft.' : 'This revision is frozen; its evidence list cannot change.'} />
+      )}
+
+      {measured.length ? (
+        <Card title="Measured against predicted" testID="evidence-overlay">
+          <DecayChart curve={revision.results.curve} requirement={revision.dossier.requirement} measured={measured} />
+        </Card>
+      ) : null}
+
+      {revision.evidence.length === 0 ? <Message text="No evidence attached yet." testID="evidence-empty" /> : null}
+      {revision.evidence.map((e) => (
+        <Card key={e.id} title={e.originalName} testID={`evidence-${e.id}`} right={<Badge label={KINDS.find((k) => k.value === e.kind)?.label ?? e.kind} tone="info" />}>
+          <Text style={type.small}>
+            {bytes(e.size)} · {e.mediaType} · {e.uploadedBy.name} · {formatWhen(e.uploadedAt)}
+          </Text>
+          <Text style={[type.mono, styles.hash]} selectable>
+            sha256 {e.sha256}
+          </Text>
+          {e.analysis ? (
+            <View style={styles.analysis} testID={`analysis-${e.id}`}>
+              <Text style={type.body}>
+                Channel {e.analysis.channel}: V0 {formatQuantity(e.analysis.v0, 'V')}; {e.analysis.samples.toLocaleString()} samples
+                {e.analysis.skipped ? `, ${e.analysis.skipped} unreadable skipped` : ''}.
+              </Text>
+              <Text style={[type.body, styles.strong]}>
+                {e.analysis.timeToSafe === null
+                  ? `✕ Never fell below ${formatQuantity(revision.dossier.requirement.safeVoltage, 'V')} in the capture.`
+                  : `Below ${formatQuantity(revision.dossier.requirement.safeVoltage, 'V')} after ${formatQuantity(e.analysis.timeToSafe, 's')}.`}
+              </Text>
+              <Text style={type.body}>
+                {e.analysis.fit === 'good' && e.analysis.tau !== null
+                  ? `Fitted time constant ${formatQuantity(e.analysis.tau, 's')} (R² ${e.analysis.rSquared?.toFixed(4) ?? '—'}).`
+                  : 'Not a clean exponential (poor fit): only the crossing time is used.'}
+              </Text>
+              {e.analysis.notes?.map((n, i) => (
+                <Text key={i} style={type.small}>
+                  · {n}
+                </Text>
+              ))}
+            </View>
+          ) : null}
+          <View style={styles.row}>
+            <a href={`/api/evidence/${e.id}/file`} download={e.originalName} style={{ color: colors.info, fontFamily: fonts.semibold }}>
+              Download
+            </a>
+            {editable ? (
+              <Button label="Remove" variant="quiet" testID={`remove-evidence-${e.id}`} busy={remove.isPending} onPress={() => remove.mutate(e.id)} />
+            ) : null}
+          </View>
+        </Card>
+      ))}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  wrap: { gap: space.lg },
+  button: { alignSelf: 'flex-start' },
+  hash: { fontSize: 11, color: colors.inkMuted },
+  analysis: { gap: space.xs, backgroundColor: colors.paper, padding: space.md, borderRadius: radius.md },
+  strong: { fontFamily: fonts.semibold },
+  row: { flexDirection: 'row', gap: space.lg, alignItems: 'center' },
+  progress: { gap: space.xs },
+  bar: { height: 6, backgroundColor: colors.brand, borderRadius: 3 },
+});

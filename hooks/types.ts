@@ -1,0 +1,137 @@
+// Shapes of the API's answers as the app reads them (the server's JSON contract, DESIGN.md §5).
+import type { DesignDraft, DischargeResult, Requirement } from '../shared/schema/discharge';
+import type { WaveformAnalysis } from '../shared/schema/waveform';
+import type { RevisionStatus } from '../shared/schema/workflow';
+
+export type Verdict = DischargeResult['verdict'];
+
+export interface Person {
+  id: string;
+  name: string;
+  email?: string;
+}
+
+export interface Product {
+  id: number;
+  name: string;
+  modelNumber: string;
+  description: string;
+  dossierCount?: number;
+}
+
+export interface DossierListItem {
+  id: number;
+  productId: number;
+  title: string;
+  requirement: Requirement;
+  product: { id: number; name: string; modelNumber: string };
+  latest: { id: number; number: number; status: RevisionStatus; updatedAt: string; verdict: Verdict } | null;
+}
+
+export interface RevisionListItem {
+  id: number;
+  number: number;
+  status: RevisionStatus;
+  verdict: Verdict;
+  author: Person;
+  createdFrom: number | null;
+  createdAt: string;
+  updatedAt: string;
+  submittedAt: string | null;
+  decidedAt: string | null;
+  signedPdf: { sha256: string; size: number; createdAt: string } | null;
+}
+
+export interface Dossier {
+  id: number;
+  productId: number;
+  title: string;
+  requirement: Requirement;
+  product: { id: number; name: string; modelNumber: string };
+  revisions: RevisionListItem[];
+}
+
+export interface EvidenceRecord {
+  id: number;
+  revisionId: number;
+  kind: 'waveform' | 'image' | 'datasheet' | 'report' | 'other';
+  originalName: string;
+  mediaType: string;
+  size: number;
+  sha256: string;
+  analysis: WaveformAnalysis | null;
+  uploadedBy: Person;
+  uploadedAt: string;
+}
+
+export interface Revision {
+  id: number;
+  dossierId: number;
+  number: number;
+  status: RevisionStatus;
+  design: DesignDraft;
+  notes: string;
+  results: DischargeResult;
+  engineVersion: string;
+  author: Person;
+  createdFrom: number | null;
+  contentHash: string | null;
+  createdAt: string;
+  updatedAt: string;
+  submittedAt: string | null;
+  decidedAt: string | null;
+  evidence: EvidenceRecord[];
+  decision: { decision: 'approve' | 'return'; comment: string; contentHash: string; reviewer: Person; at: string } | null;
+  comments: Array<{ id: number; author: Person; body: string; at: string }>;
+  signedPdf: { sha256: string; size: number; createdAt: string; signerKind: string } | null;
+  dossier: Omit<Dossier, 'revisions'>;
+  siblings: Array<{ id: number; number: number; status: RevisionStatus }>;
+}
+
+export interface RevisionDiff {
+  revision: { id: number; number: number };
+  against: { id: number; number: number };
+  inputs: Array<{ path: string; label: string; from: string; to: string; changePct: number | null }>;
+  verdict: { from: Verdict; to: Verdict } | null;
+  checks: Array<{
+    id: string;
+    label: string;
+    from: { value: number | null; pass: boolean; unit: string } | null;
+    to: { value: number | null; pass: boolean; unit: string } | null;
+    kind: 'now-fails' | 'now-passes' | 'value-changed' | 'added' | 'removed';
+  }>;
+  notes: { changed: boolean; parts: Array<{ added: boolean; removed: boolean; value: string }>; patch: string };
+  evidence: { added: Array<{ name: string; sha256: string; kind: string }>; removed: Array<{ name: string; sha256: string; kind: string }> };
+}
+
+export interface RevisionBrief {
+  id: number;
+  number: number;
+  status: RevisionStatus;
+  verdict: Verdict;
+  updatedAt: string;
+  dossier: { id: number; title: string; productName: string };
+  authorName: string;
+}
+
+export interface Overview {
+  myDrafts: RevisionBrief[];
+  returnedToMe: RevisionBrief[];
+  awaitingMyReview: RevisionBrief[];
+}
+
+export interface ReviewQueueItem {
+  id: number;
+  number: number;
+  verdict: Verdict;
+  submittedAt: string;
+  dossier: { id: number; title: string; productName: string };
+  author: Person;
+  mayDecide: boolean;
+}
+
+export interface AuditReport {
+  verified: boolean;
+  firstBroken: { id: number; reason: string } | null;
+  events: Array<{ id: number; action: string; actorName: string | null; createdAt: string; payload: unknown; hash: string }>;
+}

@@ -1,0 +1,40 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useState } from 'react';
+import { apiSend, apiUpload } from './api';
+import { keys } from './query-keys';
+import type { EvidenceRecord } from './types';
+
+export type EvidenceKind = EvidenceRecord['kind'];
+
+/** Uploads one file to a draft revision, reporting progress (0…1) while it goes. */
+export function useUploadEvidence(revisionId: number, dossierId: number) {
+  const client = useQueryClient();
+  const [progress, setProgress] = useState<number | null>(null);
+  const mutation = useMutation({
+    mutationFn: async ({ file, kind, channel }: { file: Blob; name: string; kind: EvidenceKind; channel?: string }) => {
+      const form = new FormData();
+      form.append('kind', kind);
+      if (channel) form.append('channel', channel);
+      form.append('file', file, (file as File).name);
+      setProgress(0);
+      try {
+        return await apiUpload<EvidenceRecord>(`/revisions/${revisionId}/evidence`, form, setProgress);
+      } finally {
+        setProgress(null);
+      }
+    },
+    onSuccess: () => {
+      void client.invalidateQueries({ queryKey: keys.revision(revisionId) });
+      void client.invalidateQueries({ queryKey: keys.dossier(dossierId) });
+    },
+  });
+  return { ...mutation, progress };
+}
+
+export function useRemoveEvidence(revisionId: number) {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (evidenceId: number) => apiSend<{ ok: true }>('DELETE', `/evidence/${evidenceId}`),
+    onSuccess: () => client.invalidateQueries({ queryKey: keys.revision(revisionId) }),
+  });
+}

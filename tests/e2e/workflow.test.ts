@@ -1,0 +1,129 @@
+// The whole review story on a phone: an engineer creates a dossier and a design, a reviewer returns it,
+// revision 2 changes a resistor, the diff shows it, and the reviewer approves.
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { openBrowser, PHONE, WIDE, type Browser, type WatchedPage } from './browser';
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await openBrowser();
+});
+afterAll(() => browser?.close());
+
+async function fill(page: Page, testID: string, text: string) {
+  const field = page.getByTestId(testID);
+  await field.fill(text);
+}
+
+async function waitSaved(page: Page) {
+  await expect.poll(() => page.getByTestId('save-state').textContent(), { timeout: 15_000 }).toMatch(/^Saved/);
+}
+
+async function openReviewTab(p: WatchedPage, revisionId: number) {
+  await p.page.goto(`${browser.server.url}/revisions/${revisionId}`);
+  await p.page.getByTestId('revision-tabs-review').click();
+  await p.page.getByTestId('review-tab').waitFor();
+}
+
+describe('dossier review story at phone width', () => {
+  it('create → return with a comment → revision 2 → diff → approve', async () => {
+    const engineer = await browser.page(PHONE);
+    await engineer.signIn('engineer');
+    await engineer.page.getByTestId('nav-dossiers').click();
+    await engineer.page.getByTestId('new-dossier').click();
+    await engineer.page.getByTestId('new-dossier-screen').waitFor();
+    const products = (await browser.server.ctx.db('product').select('id').orderBy('id')) as Array<{ id: number }>;
+    await engineer.page.getByTestId(`dossier-product-${products[1].id}`).click();
+    await fill(engineer.page, 'dossier-title', 'Browser story: DC-link at operator access');
+    await engineer.shot('workflow-01-new-dossier-phone');
+    await engineer.page.getByTestId('create-dossier').click();
+    await engineer.page.getByTestId('revision-screen').waitFor();
+    const revisionId = Number(/revisions\/(\d+)/.exec(engineer.page.url())![1]);
+
+    const inputs: Array<[string, string]> = [
+      ['rev-bus-nominalVoltage', '565 V'],
+      ['rev-bus-maxVoltage', '622 V'],
+      ['rev-capacitors-capacitance', '470u'],
+      ['rev-capacitors-series', '1'],
+      ['rev-capacitors-parallel', '2'],
+      ['rev-capacitors-toleranceMinus', '20 %'],
+      ['rev-capacitors-tolerancePlus', '20 %'],
+      ['rev-bleeder-resistance', '100k'],
+      ['rev-bleeder-series', '2'],
+      ['rev-bleeder-parallel', '1'],
+      ['rev-bleeder-tolerance', '1 %'],
+      ['rev-bleeder-tcrPpmPerK', '100 ppm/K'],
+      ['rev-bleeder-drift', '0 %'],
+      ['rev-bleeder-powerRating', '2 W'],
+      ['rev-bleeder-elementVoltage', '500 V'],
+      ['rev-bleeder-derating', '50 %'],
+      ['rev-ambient-min', '-25'],
+      ['rev-ambient-max', '85'],
+    ];
+    for (const [id, text] of inputs) await fill(engineer.page, id, text);
+    await fill(engineer.page, 'rev-notes', 'Two 100 kΩ in series across the bank.');
+    await waitSaved(engineer.page);
+    await expect.poll(() => engineer.page.getByTestId('rev-verdict-text').textContent()).toMatch(/Meets|Fails/);
+    await engineer.shot('workflow-02-design-phone');
+
+    await engineer.page.getByTestId('revision-tabs-review').click();
+    await engineer.page.getByTestId('submit-revision').click();
+    await expect.poll(() => engineer.page.getByTestId('review-status').textContent()).toMatch(/Awaiting review/);
+    await engineer.shot('workflow-03-submitted-phone');
+
+    const reviewer = await browser.page(PHONE);
+    await reviewer.signIn('reviewer');
+    await reviewer.page.getByTestId('nav-reviews').click();
+    await reviewer.page.getByTestId(`review-item-${revisionId}`).click();
+    await reviewer.page.getByTestId('review-tab').waitFor();
+    await reviewer.page.getByTestId('return').click();
+    await expect.poll(() => reviewer.page.getByTestId('decision-comment-error').textContent()).toMatch(/Say what must change/);
+    await fill(reviewer.page, 'decision-comment', 'Show the margin with a 68 kΩ part as well.');
+    await reviewer.page.getByTestId('return').click();
+    await reviewer.page.getByTestId('decision').waitFor();
+    await reviewer.shot('workflow-04-returned-phone');
+
+    await engineer.page.goto(`${browser.server.url}/`);
+    await engineer.page.getByTestId(`returned-to-me-item-${revisionId}`).waitFor();
+    await engineer.shot('workflow-05-overview-returned-phone');
+    await engineer.page.getByTestId(`returned-to-me-item-${revisionId}`).click();
+    await engineer.page.getByTestId('to-dossier').click();
+    await engineer.page.getByTestId('start-revision').click();
+    await engineer.page.getByTestId('revision-screen').waitFor();
+    await expect.poll(() => engineer.page.url()).not.toContain(`/revisions/${revisionId}`);
+    const second = Number(/revisions\/(\d+)/.exec(engineer.page.url())![1]);
+    await fill(engineer.page, 'rev-bleeder-resistance', '68k');
+    await waitSaved(engineer.page);
+    await engineer.page.getByTestId('revision-tabs-changes').click();
+    await expect.poll(() => engineer.page.getByTestId('change-bleeder.resistance').textContent()).toMatch(/100 kΩ → 68 kΩ\s+\(-32\.0 %\)/);
+    await engineer.shot('workflow-06-changes-phone');
+    await engineer.page.getByTestId('revision-tabs-review').click();
+    await engineer.page.getByTestId('submit-revision').click();
+    await expect.poll(() => engineer.page.getByTestId('review-status').textContent()).toMatch(/Awaiting review/);
+
+    await openReviewTab(reviewer, second);
+    await fill(reviewer.page, 'decision-comment', 'Margin acceptable at the slow corner.');
+    await reviewer.page.getByTestId('approve').click();
+    await expect.poll(() => reviewer.page.getByTestId('decision').textContent(), { timeout: 20_000 }).toMatch(/Approved by Marta Kowalczyk/);
+    await reviewer.shot('workflow-07-approved-phone');
+
+    expect(engineer.problems).toEqual([]);
+    expect(reviewer.problems).toEqual([]);
+  });
+
+  it('the revision page reads well on a wide screen', async () => {
+    const p = await browser.page(WIDE);
+    await p.signIn('engineer');
+    const rev = await browser.server.ctx.db('revision').where({ status: 'draft' }).first('id');
+    await p.page.goto(`${browser.server.url}/revisions/${rev.id}`);
+    await p.page.getByTestId('design-tab').waitFor();
+    await p.shot('workflow-08-revision-wide');
+    await p.page.getByTestId('revision-tabs-changes').click();
+    await p.page.getByTestId('changes').waitFor();
+    await p.shot('workflow-09-changes-wide');
+    await p.page.goto(`${browser.server.url}/dossiers`);
+    await p.page.getByTestId('dossiers-screen').waitFor();
+    await p.shot('workflow-10-dossiers-wide');
+    expect(p.problems).toEqual([]);
+  });
+});
