@@ -117,7 +117,7 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
         </Card>
       </View>
       <View style={[styles.col, wide && styles.results]}>
-        <ResultsPanel result={revision.results} requirement={revision.dossier.requirement} measured={measuredTraces(revision)} testIDPrefix="rev" />
+        <ResultsPanel result={revision.results} requirement={revision.dossier.requirement} design={design} measured={measuredTraces(revision)} testIDPrefix="rev" />
       </View>
     </View>
   );

@@ -1,3 +1,4 @@
+import type { Knex } from 'knex';
 import type { Decision } from '../../shared/schema/workflow';
 import { appendAudit } from '../audit/chain';
 import type { SignedInUser } from '../auth/middleware';
@@ -16,7 +17,7 @@ export async function decideRevision(
   user: SignedInUser,
   revisionId: number,
   decision: Decision,
-  afterApprove?: (rev: Revision) => Promise<void>,
+  afterApprove?: (trx: Knex.Transaction, rev: Revision) => Promise<void>,
 ): Promise<Revision> {
   await ctx.db.transaction(async (trx) => {
     const rev = await loadRevision(trx, revisionId);
@@ -54,7 +55,7 @@ export async function decideRevision(
       comment: decision.comment || '(no comment)',
       link: `${ctx.baseUrl}/revisions/${revisionId}`,
     });
-    if (status === 'approved' && afterApprove) await afterApprove(await loadRevision(trx, revisionId));
+    if (status === 'approved' && afterApprove) await afterApprove(trx, await loadRevision(trx, revisionId));
   });
   ctx.kickMail();
   return loadRevision(ctx.db, revisionId);

@@ -1,4 +1,5 @@
 import { Router } from 'express';
+import type { Knex } from 'knex';
 import { decisionSchema, reviewCommentSchema } from '../../shared/schema/workflow';
 import { allow, currentUser } from '../auth/middleware';
 import type { AppContext } from '../context';
@@ -7,7 +8,7 @@ import { parseId } from '../params';
 import type { Revision } from '../revisions/store';
 import { addReviewComment, decideRevision } from './domain';
 
-export function reviewRoutes(ctx: AppContext, afterApprove?: (rev: Revision) => Promise<void>): Router {
+export function reviewRoutes(ctx: AppContext, afterApprove?: (trx: Knex.Transaction, rev: Revision) => Promise<void>): Router {
   const router = Router();
 
   router.post('/revisions/:id/decision', allow('reviewer'), async (req, res) => {

@@ -59,6 +59,7 @@ const TABLE: Row[] = [
   // The draft is engineer2's: the engineer is refused as not the author, the admin reaches validation.
   { method: 'post', path: (i) => `/api/revisions/${i.draftId}/evidence`, expect: { anonymous: 401, admin: 400, engineer: 403, signedIn: 403 } },
   { method: 'get', path: (i) => `/api/evidence/${i.evidenceId}/file`, expect: { anonymous: 401, signedIn: 200 } },
+  { method: 'get', path: (i) => `/api/revisions/${i.inReviewId}/dossier.pdf`, expect: { anonymous: 401, signedIn: 200 } },
   { method: 'delete', path: () => '/api/evidence/999999', expect: { anonymous: 401, admin: 404, engineer: 404, signedIn: 403 } },
   { method: 'get', path: () => '/api/no-such-route', expect: { anonymous: 404, signedIn: 404 } },
 ];
