@@ -17,27 +17,41 @@ export function eSeriesMantissas(series: ESeries): readonly number[] {
   return series === 'E24' ? E24 : E96;
 }
 
-/** The series' values in the decade of x and its two neighbours, ascending, exact to the series' figures. */
-function valuesAround(x: number, series: ESeries): number[] {
-  const mantissas = eSeriesMantissas(series);
+/** The power of ten that scales the series' table to the decade of x. */
+function split(x: number, series: ESeries): { exponent: number; digits: number } {
   const digits = series === 'E24' ? 2 : 3;
-  const decade = Math.floor(Math.log10(x));
-  const out: number[] = [];
-  for (let d = decade - 1; d <= decade + 1; d += 1) {
-    for (const m of mantissas) out.push(Number((m * 10 ** (d - digits + 1)).toPrecision(digits)));
-  }
-  return out;
+  return { exponent: Math.floor(Math.log10(x)) - digits + 1, digits };
 }
 
-/** Largest series value ≤ x (tolerant to floating-point noise), or undefined for x ≤ 0 or non-finite. */
+/** The series' values around x in ascending order: the last of the decade below, x's decade, the first above. */
+function neighbourhood(x: number, series: ESeries): number[] {
+  const table = eSeriesMantissas(series);
+  const { exponent, digits } = split(x, series);
+  const scaled = (m: number, e: number) => Number((m * 10 ** e).toPrecision(digits));
+  // A cheap estimate of the position narrows the exact (rounded) comparison to a few values.
+  const raw = x / 10 ** exponent;
+  const at = table.findIndex((m) => m > raw * (1 + 1e-9));
+  const i = at === -1 ? table.length : at;
+  const window: number[] = [];
+  for (let k = i - 2; k <= i + 1; k += 1) {
+    const e = exponent + Math.floor(k / table.length);
+    window.push(scaled(table[((k % table.length) + table.length) % table.length], e));
+  }
+  return window;
+}
+
+/**
+ * Largest series value ≤ x, or undefined for x ≤ 0 or non-finite. Strict: a bound that lands a rounding
+ * error below a preferred value (749 999.999… for 750 k) gives the value below, so the answer always
+ * passes the check that set the bound.
+ */
 export function eValueAtOrBelow(x: number, series: ESeries): number | undefined {
   if (!(x > 0) || !Number.isFinite(x)) return undefined;
-  const candidates = valuesAround(x, series).filter((v) => v <= x * (1 + 1e-12));
-  return candidates[candidates.length - 1];
+  return neighbourhood(x, series).filter((v) => v <= x).pop();
 }
 
 /** Smallest series value strictly above x. */
 export function eValueAbove(x: number, series: ESeries): number {
-  const candidates = valuesAround(x, series).filter((v) => v > x * (1 + 1e-12));
-  return candidates[0];
+  const window = neighbourhood(x, series);
+  return window.find((v) => v > x) ?? window[window.length - 1];
 }

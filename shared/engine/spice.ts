@@ -9,6 +9,17 @@ export const SPICE_BUS_NODE = 'bus';
 /** Name of the `.meas` result: time at which the bus crosses the safe threshold. */
 export const SPICE_MEASURE = 't_safe';
 
+/** Comments in plain ASCII: several simulators read netlists as 8-bit text and garble µ, Ω or °. */
+function ascii(text: string): string {
+  return text
+    .replace(/[µμ]/g, 'u')
+    .replace(/Ω/g, 'Ohm')
+    .replace(/°C/g, 'degC')
+    .replace(/[−–]/g, '-')
+    .replace(/×/g, 'x')
+    .replace(/[^\x20-\x7e]/g, '?');
+}
+
 function num(value: number): string {
   return Number(value.toPrecision(12)).toString();
 }
@@ -35,13 +46,16 @@ export function spiceNetlist(input: { readonly requirement: Requirement; readonl
   const scale = Math.max(s.passiveTimeToSafe, s.tau);
   const stop = 1.5 * Math.max(scale, Math.min(requirement.maxTime, 20 * scale));
   const maxStep = scale / 2000;
-  const lines = [
+  const comments = [
     `* Capacitor discharge network, ${corner === 'worst' ? 'worst-case' : 'nominal'} corner`,
     `* ${describeScenario({ ...s, main: s.passive }, design)}`,
     `* Safe threshold: ${describeThreshold(s.threshold, requirement, s.capacitance)}; limit ${q(requirement.maxTime, 's')}`,
     `* Bank: ${capacitors.parallel} string(s) of ${capacitors.series} × ${q(s.capacitorUnit, 'F')}, each charged to ${q(s.initialVoltage / capacitors.series, 'V')}`,
     `* Bleeder: ${bleeder.parallel} string(s) of ${bleeder.series} × ${q(s.resistorUnit, 'Ω')}`,
     ...(design.active === null ? [] : ['* The active discharge circuit is not modelled: this is the bleeders-alone fallback.']),
+  ].map(ascii);
+  const lines = [
+    ...comments,
     ...strings('C', capacitors.series, capacitors.parallel, s.capacitorUnit, s.initialVoltage / capacitors.series),
     ...strings('R', bleeder.series, bleeder.parallel, s.resistorUnit),
     `.tran ${num(maxStep)} ${num(stop)} 0 ${num(maxStep)} UIC`,

@@ -2,7 +2,7 @@
 // app, the API and stored revisions. All numbers are SI base units; temperatures in °C; tolerances are
 // fractions (0.01 = 1 %).
 import { z } from 'zod';
-import { snubberSchema } from './snubber';
+import { snubberDraftSchema, snubberSchema } from './snubber';
 
 interface QuantityRule {
   /** Plain name used in messages, e.g. "Capacitance". */
@@ -187,7 +187,7 @@ export const designDraftSchema = z.object({
     )
     .nullish(),
   balancing: z.object(draftOf(balancingLeaves)).nullish(),
-  snubbers: z.array(snubberSchema).optional(),
+  snubbers: z.array(snubberDraftSchema).optional(),
 });
 
 // ---------------------------------------------------------------------------------------------------
