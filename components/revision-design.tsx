@@ -2,7 +2,6 @@ import { useEffect, useRef, useState } from 'react';
 import { StyleSheet, Text, useWindowDimensions, View } from 'react-native';
 import { colors, space, type, WIDE_BREAKPOINT } from '../constants/theme';
 import type { DesignDraft } from '../shared/schema/discharge';
-import type { Snubber } from '../shared/schema/snubber';
 import { formatQuantity } from '../shared/units';
 import { ApiError, type FieldError } from '../hooks/api';
 import type { Revision } from '../hooks/types';
@@ -91,12 +90,12 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
         />
         <Card title="Snubbers">
           <SnubberListEditor
-            value={(design.snubbers ?? []) as Snubber[]}
+            value={design.snubbers ?? []}
             readOnly={!editable}
             testIDPrefix="rev-snubbers"
             serverErrors={errors}
             onChange={(list) => {
-              const next = { ...design, snubbers: list as Snubber[] };
+              const next = { ...design, snubbers: list };
               setDesign(next);
               schedule({ design: next });
             }}

@@ -40,9 +40,9 @@ type NumericKey =
  */
 export type SnubberDraft = {
   kind: SnubberKind;
-  name?: string;
-  location?: string;
-  accessible?: boolean;
+  name?: string | null;
+  location?: string | null;
+  accessible?: boolean | null;
 } & { [K in NumericKey]?: number | null };
 
 export interface SnubberFieldProblem {

@@ -2,7 +2,7 @@
 // state into the definition it is given, so nothing here may be shared between two documents.
 import type { Content, TableCell } from 'pdfmake/interfaces';
 import type { Check, DesignDraft, NetworkState, Requirement } from '../../shared/schema/discharge';
-import type { Snubber } from '../../shared/schema/snubber';
+import type { SnubberDraft } from '../../shared/schema/snubber';
 import type { WaveformAnalysis } from '../../shared/schema/waveform';
 import { decayChartSvg, type ChartSeries } from './chart';
 import { bytes, percent, plain, quantity, timestamp } from './format';
@@ -382,41 +382,35 @@ function designRows(design: DesignDraft): Array<{ title: string; rows: Row[] }> 
       ],
     });
   }
-  for (const s of design.snubbers ?? []) groups.push({ title: `Snubber: ${s.name}`, rows: snubberRows(s) });
+  for (const [i, s] of (design.snubbers ?? []).entries()) groups.push({ title: `Snubber: ${s.name || `#${i + 1} (unnamed)`}`, rows: snubberRows(s) });
   return groups;
 }
 
-const SNUBBER_KIND_WORDS: Record<Snubber['kind'], string> = {
+const SNUBBER_KIND_WORDS: Record<SnubberDraft['kind'], string> = {
   rc: 'RC damping',
   'rcd-turnoff': 'RCD turn-off',
   'rcd-clamp': 'RCD clamp',
 };
 
-function snubberRows(s: Snubber): Row[] {
+function snubberRows(s: SnubberDraft): Row[] {
   const rows: Row[] = [
     ['Kind', SNUBBER_KIND_WORDS[s.kind]],
     ['Location', s.location || '—'],
-    ['Resistance', quantity(s.resistance, 'Ω')],
-    ['Capacitance', `${quantity(s.capacitance, 'F')} ± ${percent(s.capacitanceTolerance)}`],
-    ['Resistor power rating', `${quantity(s.powerRating, 'W')} (derating ${percent(s.derating)})`],
-    ['Capacitor voltage rating', quantity(s.capacitorVoltageRating, 'V')],
-    ['Switching voltage', `${quantity(s.switchingVoltage, 'V')} (overshoot ${percent(s.overshoot)})`],
-    ['Switching frequency', quantity(s.switchingFrequency, 'Hz')],
+    ['Resistance', given(s.resistance, 'Ω')],
+    ['Capacitance', `${given(s.capacitance, 'F')} ± ${givenPct(s.capacitanceTolerance)}`],
+    ['Resistor power rating', `${given(s.powerRating, 'W')} (derating ${givenPct(s.derating)})`],
+    ['Capacitor voltage rating', given(s.capacitorVoltageRating, 'V')],
+    ['Switching voltage', `${given(s.switchingVoltage, 'V')} (overshoot ${givenPct(s.overshoot)})`],
+    ['Switching frequency', given(s.switchingFrequency, 'Hz')],
     ['Accessible', s.accessible ? 'Yes' : 'No'],
   ];
-  if (s.kind === 'rc') {
-    if (s.parasiticInductance !== undefined) rows.push(['Parasitic inductance', quantity(s.parasiticInductance, 'H')]);
-    if (s.parasiticCapacitance !== undefined) rows.push(['Parasitic capacitance', quantity(s.parasiticCapacitance, 'F')]);
-  } else if (s.kind === 'rcd-turnoff') {
-    if (s.switchedCurrent !== undefined) rows.push(['Switched current', quantity(s.switchedCurrent, 'A')]);
-    if (s.fallTime !== undefined) rows.push(['Current fall time', quantity(s.fallTime, 's')]);
-    if (s.minOnTime !== undefined) rows.push(['Minimum on-time', quantity(s.minOnTime, 's')]);
-  } else {
-    if (s.leakageInductance !== undefined) rows.push(['Leakage inductance', quantity(s.leakageInductance, 'H')]);
-    if (s.peakCurrent !== undefined) rows.push(['Peak primary current', quantity(s.peakCurrent, 'A')]);
-    if (s.clampVoltage !== undefined) rows.push(['Clamp voltage', quantity(s.clampVoltage, 'V')]);
-    if (s.reflectedVoltage !== undefined) rows.push(['Reflected voltage', quantity(s.reflectedVoltage, 'V')]);
-  }
+  const extras: Array<[string, number | null | undefined, string]> =
+    s.kind === 'rc'
+      ? [['Parasitic inductance', s.parasiticInductance, 'H'], ['Parasitic capacitance', s.parasiticCapacitance, 'F']]
+      : s.kind === 'rcd-turnoff'
+        ? [['Switched current', s.switchedCurrent, 'A'], ['Current fall time', s.fallTime, 's'], ['Minimum on-time', s.minOnTime, 's']]
+        : [['Leakage inductance', s.leakageInductance, 'H'], ['Peak primary current', s.peakCurrent, 'A'], ['Clamp voltage', s.clampVoltage, 'V'], ['Reflected voltage', s.reflectedVoltage, 'V']];
+  for (const [label, value, unit] of extras) if (value != null) rows.push([label, quantity(value, unit)]);
   return rows;
 }
 

@@ -1,10 +1,11 @@
 // Everything that decides a revision's verdict, gathered in one place: the discharge checks, each
 // snubber's checks, the accessible snubbers' stored energy, and each analysed capture's measured checks.
 import type { Check, DesignDraft, DischargeResult, Requirement } from '../schema/discharge';
-import type { Snubber } from '../schema/snubber';
+import { snubberSchema, type Snubber } from '../schema/snubber';
 import type { WaveformAnalysis } from '../schema/waveform';
 import { formatQuantity } from '../units';
-import { computeDischarge } from './compute';
+import { completeInput, computeDischarge } from './compute';
+import { networkCorners } from './network';
 import { measuredDischargeCheck } from './measured';
 import { snubberChecks, snubberMissingInputs, snubberStoredEnergy } from './snubber';
 
@@ -40,20 +41,29 @@ export function computeRevisionResults(
   captures: readonly MeasuredCapture[] = [],
 ): DischargeResult {
   const base = computeDischarge({ requirement, design });
-  const snubbers = (design.snubbers ?? []) as Snubber[];
   const extra: Check[] = [];
   const missing = [...base.missing];
 
-  snubbers.forEach((s, i) => {
-    extra.push(...snubberChecks(s).map((c) => ({ ...c, id: `${c.id}:${i}` })));
-    missing.push(...snubberMissingInputs(s).map((field) => `design.snubbers.${i}.${field}`));
+  // A snubber still being typed has no checks yet; its empty fields make the verdict incomplete.
+  const snubbers: Snubber[] = [];
+  (design.snubbers ?? []).forEach((draft, i) => {
+    const parsed = snubberSchema.safeParse(draft);
+    if (!parsed.success) {
+      missing.push(...new Set(parsed.error.issues.map((issue) => `design.snubbers.${i}.${String(issue.path[0] ?? '')}`)));
+      return;
+    }
+    snubbers.push(parsed.data);
+    extra.push(...snubberChecks(parsed.data).map((c) => ({ ...c, id: `${c.id}:${i}` })));
+    missing.push(...snubberMissingInputs(parsed.data).map((field) => `design.snubbers.${i}.${field}`));
   });
   const energy = snubberEnergyCheck(snubbers, requirement, design.bus?.maxVoltage ?? undefined);
   if (energy) extra.push(energy);
 
-  if (base.nominal && base.worstCase && design.bleeder && design.capacitors) {
-    // The fast corner: R at −tolerance and C at −tolerance, relative to nominal.
-    const toleranceBand = 1 - (1 - (design.bleeder.tolerance ?? 0)) * (1 - (design.capacitors.toleranceMinus ?? 0));
+  const complete = completeInput({ requirement, design });
+  if (base.nominal && base.worstCase && complete.ok) {
+    // The fast corner (R and C at their minimum, ageing included) as a fraction below the nominal τ.
+    const corners = networkCorners(complete.design);
+    const toleranceBand = 1 - (corners.resistance.min * corners.capacitance.min) / (corners.resistance.nominal * corners.capacitance.nominal);
     for (const capture of captures) {
       extra.push(
         ...measuredDischargeCheck(capture.analysis, requirement, { nominalTau: base.nominal.tau, worstCaseTau: base.worstCase.tau, toleranceBand }, capture.name),

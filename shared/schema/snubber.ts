@@ -127,3 +127,24 @@ export const ringingInputSchema = z
 
 export type RingingInput = z.infer<typeof ringingInputSchema>;
 export type RingingInputRaw = z.input<typeof ringingInputSchema>;
+
+/** Every field but the kind optional and nullable; present values keep their rules. */
+function draftOf<T extends z.ZodRawShape>(shape: T) {
+  const loose = Object.fromEntries(
+    Object.entries(shape).map(([key, field]) => [key, key === 'kind' ? field : (field as z.ZodType).nullish()]),
+  ) as { [K in keyof T]: K extends 'kind' ? T[K] : z.ZodOptional<z.ZodNullable<T[K]>> };
+  return z.object(loose);
+}
+
+/**
+ * A snubber while it is being typed into a draft revision: the kind is known, every other field may
+ * still be missing, but what is present must be valid. A draft that passes `snubberSchema` gets its
+ * checks; one that does not yet makes the revision's verdict incomplete.
+ */
+export const snubberDraftSchema = z.discriminatedUnion('kind', [
+  draftOf(rcSnubberSchema.shape),
+  draftOf(rcdTurnoffSnubberSchema.shape),
+  draftOf(rcdClampSnubberSchema.shape),
+]);
+
+export type SnubberDraft = z.infer<typeof snubberDraftSchema>;
