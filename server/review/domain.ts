@@ -24,6 +24,14 @@ export async function decideRevision(
     if (user.role !== 'reviewer') throw forbidden('Only reviewers decide on revisions.');
     if (rev.author.id === user.id) throw forbidden('You authored this revision; another reviewer must decide on it (separation of duties).');
     if (rev.status !== 'in_review') throw conflict(`Revision ${rev.number} is ${rev.status.replace('_', ' ')}, not awaiting review.`);
+    if (decision.decision === 'approve' && rev.results.verdict !== 'meets') {
+      const failing = rev.results.checks.filter((c) => !c.pass && !c.alternative && c.limit !== null).map((c) => c.label);
+      throw conflict(
+        rev.results.verdict === 'incomplete'
+          ? `Revision ${rev.number} cannot be approved: its inputs are incomplete. Return it with a comment.`
+          : `Revision ${rev.number} cannot be approved: it fails ${failing.join(', ')}. Return it with a comment.`,
+      );
+    }
     const status = decision.decision === 'approve' ? 'approved' : 'returned';
     const now = new Date().toISOString();
     const changed = await trx('revision').where({ id: revisionId, status: 'in_review' }).update({ status, decided_at: now, updated_at: now });

@@ -1,7 +1,7 @@
 import Database from 'better-sqlite3';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demoDesign, demoRequirement } from '../support/fixtures';
+import { demoDesign, demoRequirement, failingDesign } from '../support/fixtures';
 import { startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
@@ -129,6 +129,17 @@ describe('separation of duties and permissions', () => {
     expect(res.status).toBe(403);
     const viewer = await server.signIn('viewer');
     expect((await viewer.post('/api/products').send({ name: 'x', modelNumber: 'y' })).status).toBe(403);
+  });
+
+  it('when a revision fails a check, then it cannot be approved, only returned', async () => {
+    const { engineer, draftId } = await newDossier('Failing');
+    await engineer.patch(`/api/revisions/${draftId}`).send({ design: failingDesign });
+    await engineer.post(`/api/revisions/${draftId}/submit`);
+    const reviewer = await server.signIn('reviewer');
+    const res = await reviewer.post(`/api/revisions/${draftId}/decision`).send({ decision: 'approve', comment: 'looks fine' });
+    expect(res.status).toBe(409);
+    expect(res.body.error.message).toMatch(/cannot be approved: it fails Bleeder resistor dissipation/);
+    expect((await engineer.get(`/api/revisions/${draftId}`)).body.status).toBe('in_review');
   });
 
   it('when two reviewers decide at the same moment, then exactly one wins and the other gets 409', async () => {
