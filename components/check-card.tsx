@@ -10,10 +10,13 @@ interface Props {
 }
 
 /** Value against limit in the check's unit, e.g. "3.29 s against a limit of 5 s". */
+// A dimensionless figure (a damping ratio) reads as a plain number, not with an SI prefix.
+const show = (value: number, unit: string) => (unit ? formatQuantity(value, unit) : String(Number(value.toPrecision(3))));
+
 function comparison(check: Check): string {
   if (check.value === null) return 'No value';
-  const value = formatQuantity(check.value, check.unit);
-  return check.limit === null ? value : `${value} against a limit of ${formatQuantity(check.limit, check.unit)}`;
+  const value = show(check.value, check.unit);
+  return check.limit === null ? value : `${value} against a limit of ${show(check.limit, check.unit)}`;
 }
 
 function marginText(check: Check): string | null {
@@ -21,7 +24,7 @@ function marginText(check: Check): string | null {
   if (check.margin >= 0) return `${formatPercent(check.margin, 2)} margin`;
   // Far past the limit a ratio reads better than "over by 1300 %".
   return check.margin > -1
-    ? `over the limit by ${formatPercent(-check.margin, 2)}`
+    ? `misses the limit by ${formatPercent(-check.margin, 2)}`
     : `${Number((1 - check.margin).toPrecision(3))} × the limit`;
 }
 

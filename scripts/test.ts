@@ -11,8 +11,10 @@ const TOOLS: Array<[string, string]> = [
   ['/usr/bin/pdftoppm', 'poppler-utils'],
   ['/usr/bin/qpdf', 'qpdf'],
   ['/usr/bin/ngspice', 'ngspice'],
+  ['/usr/bin/openssl', 'openssl'],
+  ['/usr/bin/pdfimages', 'poppler-utils'],
 ];
-const APT_LINE = 'apt-get update && apt-get install -y chromium poppler-utils qpdf ngspice';
+const APT_LINE = 'apt-get update && apt-get install -y chromium poppler-utils qpdf ngspice openssl';
 
 const missing = () => TOOLS.filter(([path]) => !existsSync(path)).map(([, pkg]) => pkg);
 
