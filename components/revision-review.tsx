@@ -75,8 +75,14 @@ export function RevisionReview({ revision, me }: { revision: Revision; me: Me })
             placeholder="What you checked, or what must change"
           />
           {decide.error && !fieldError ? <Message tone="error" text={decide.error.message} /> : null}
+          {revision.results.verdict !== 'meets' ? (
+            <Message
+              testID="approve-blocked"
+              text={revision.results.verdict === 'fails' ? 'The calculation fails at least one check, so this revision can only be returned.' : 'Inputs are incomplete, so this revision can only be returned.'}
+            />
+          ) : null}
           <View style={styles.inline}>
-            <Button label="Approve and sign" testID="approve" busy={decide.isPending} onPress={() => send('approve')} />
+            <Button label="Approve and sign" testID="approve" busy={decide.isPending} disabled={revision.results.verdict !== 'meets'} onPress={() => send('approve')} />
             <Button label="Return for changes" variant="danger" testID="return" busy={decide.isPending} onPress={() => send('return')} />
           </View>
         </Card>

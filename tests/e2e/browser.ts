@@ -43,7 +43,10 @@ export async function openBrowser(): Promise<Browser> {
         if (msg.type() === 'error') problems.push(`console: ${msg.text()}`);
       });
       page.on('pageerror', (err) => problems.push(`page error: ${err.message}`));
-      page.on('requestfailed', (req) => problems.push(`request failed: ${req.url()} ${req.failure()?.errorText ?? ''}`));
+      page.on('requestfailed', (req) => {
+        // A request cut short by the test navigating away is not a failure of the app.
+        if (req.failure()?.errorText !== 'net::ERR_ABORTED') problems.push(`request failed: ${req.url()} ${req.failure()?.errorText ?? ''}`);
+      });
       page.on('response', (res) => {
         if (res.status() >= 400) problems.push(`HTTP ${res.status()}: ${res.url()}`);
       });

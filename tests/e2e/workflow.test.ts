@@ -19,6 +19,19 @@ async function waitSaved(page: Page) {
   await expect.poll(() => page.getByTestId('save-state').textContent(), { timeout: 15_000 }).toMatch(/^Saved/);
 }
 
+/** Uploads a capture V0·e^(−t/τ) (600 V, pre-trigger plateau) through the page's file picker. */
+async function uploadCapture(page: Page, name: string, tau: number) {
+  const rows = ['Time (s),CH1 (V)'];
+  for (let i = 0; i < 3000; i++) {
+    const t = -0.5 + i * 0.003;
+    rows.push(`${t.toFixed(4)},${(t < 0 ? 600 : 600 * Math.exp(-t / tau)).toFixed(3)}`);
+  }
+  const chooser = page.waitForEvent('filechooser');
+  await page.getByTestId('choose-file').click();
+  await (await chooser).setFiles({ name, mimeType: 'text/csv', buffer: Buffer.from(rows.join('\n')) });
+  await page.getByTestId('evidence-overlay').waitFor({ timeout: 20_000 });
+}
+
 async function openReviewTab(p: WatchedPage, revisionId: number) {
   await p.page.goto(`${browser.server.url}/revisions/${revisionId}`);
   await p.page.getByTestId('revision-tabs-review').click();
@@ -43,18 +56,18 @@ describe('dossier review story at phone width', () => {
     const inputs: Array<[string, string]> = [
       ['rev-bus-nominalVoltage', '565 V'],
       ['rev-bus-maxVoltage', '622 V'],
-      ['rev-capacitors-capacitance', '470u'],
+      ['rev-capacitors-capacitance', '3.3u'],
       ['rev-capacitors-series', '1'],
       ['rev-capacitors-parallel', '2'],
-      ['rev-capacitors-toleranceMinus', '20 %'],
-      ['rev-capacitors-tolerancePlus', '20 %'],
+      ['rev-capacitors-toleranceMinus', '5 %'],
+      ['rev-capacitors-tolerancePlus', '5 %'],
       ['rev-bleeder-resistance', '100k'],
       ['rev-bleeder-series', '2'],
       ['rev-bleeder-parallel', '1'],
       ['rev-bleeder-tolerance', '1 %'],
       ['rev-bleeder-tcrPpmPerK', '100 ppm/K'],
       ['rev-bleeder-drift', '0 %'],
-      ['rev-bleeder-powerRating', '2 W'],
+      ['rev-bleeder-powerRating', '3 W'],
       ['rev-bleeder-elementVoltage', '500 V'],
       ['rev-bleeder-derating', '50 %'],
       ['rev-ambient-min', '-25'],
@@ -63,8 +76,15 @@ describe('dossier review story at phone width', () => {
     for (const [id, text] of inputs) await fill(engineer.page, id, text);
     await fill(engineer.page, 'rev-notes', 'Two 100 kΩ in series across the bank.');
     await waitSaved(engineer.page);
-    await expect.poll(() => engineer.page.getByTestId('rev-verdict-text').textContent()).toMatch(/Meets|Fails/);
+    await expect.poll(() => engineer.page.getByTestId('rev-verdict-text').textContent()).toMatch(/Meets every check/);
     await engineer.shot('workflow-02-design-phone');
+
+    // A bench capture of the same link (nominal τ = 200 kΩ · 6.6 µF = 1.32 s).
+    await engineer.page.getByTestId('revision-tabs-evidence').click();
+    await uploadCapture(engineer.page, 'bench-rev1.csv', 1.3);
+    await expect.poll(() => engineer.page.locator('[data-testid^="analysis-"]').first().textContent()).toMatch(/Fitted time constant 1\.3 s/);
+    await engineer.page.getByTestId('evidence-overlay').scrollIntoViewIfNeeded();
+    await engineer.shot('workflow-02b-evidence-phone');
 
     await engineer.page.getByTestId('revision-tabs-review').click();
     await engineer.page.getByTestId('submit-revision').click();
@@ -94,6 +114,11 @@ describe('dossier review story at phone width', () => {
     const second = Number(/revisions\/(\d+)/.exec(engineer.page.url())![1]);
     await fill(engineer.page, 'rev-bleeder-resistance', '68k');
     await waitSaved(engineer.page);
+    // The old capture was of the 100 kΩ build: it no longer fits the predicted band, so it is replaced.
+    await engineer.page.getByTestId('revision-tabs-evidence').click();
+    await engineer.page.locator('[data-testid^="remove-evidence-"]').first().click();
+    await engineer.page.getByTestId('evidence-empty').waitFor();
+    await uploadCapture(engineer.page, 'bench-rev2.csv', 0.9);
     await engineer.page.getByTestId('revision-tabs-changes').click();
     await expect.poll(() => engineer.page.getByTestId('change-bleeder.resistance').textContent()).toMatch(/100 kΩ → 68 kΩ\s+\(-32\.0 %\)/);
     await engineer.shot('workflow-06-changes-phone');
