@@ -118,6 +118,7 @@ export interface Overview {
   myDrafts: RevisionBrief[];
   returnedToMe: RevisionBrief[];
   awaitingMyReview: RevisionBrief[];
+  recentlyApproved: RevisionBrief[];
 }
 
 export interface ReviewQueueItem {

@@ -11,6 +11,7 @@ export default function OverviewScreen() {
   const me = useMe().data!;
   const overview = useOverview();
   const wide = useWindowDimensions().width >= WIDE_BREAKPOINT;
+  const authors = me.role === 'engineer' || me.role === 'admin';
   return (
     <Screen title="Overview" subtitle={`Signed in as ${me.name} (${me.role})`} testID="overview-screen" showCaution>
       {overview.isError ? <Message tone="error" text={overview.error.message} /> : null}
@@ -21,11 +22,18 @@ export default function OverviewScreen() {
               <RevisionList items={overview.data.awaitingMyReview} empty="Nothing awaits your review." testID="awaiting-review" />
             </Card>
           ) : null}
-          <Card title={`Returned to me (${overview.data.returnedToMe.length})`} style={styles.col}>
-            <RevisionList items={overview.data.returnedToMe} empty="No revision of yours was returned." testID="returned-to-me" />
-          </Card>
-          <Card title={`My drafts (${overview.data.myDrafts.length})`} style={styles.col}>
-            <RevisionList items={overview.data.myDrafts} empty="You have no open drafts." testID="my-drafts" />
+          {authors ? (
+            <Card title={`Returned to me (${overview.data.returnedToMe.length})`} style={styles.col}>
+              <RevisionList items={overview.data.returnedToMe} empty="No revision of yours was returned." testID="returned-to-me" />
+            </Card>
+          ) : null}
+          {authors ? (
+            <Card title={`My drafts (${overview.data.myDrafts.length})`} style={styles.col}>
+              <RevisionList items={overview.data.myDrafts} empty="You have no open drafts." testID="my-drafts" />
+            </Card>
+          ) : null}
+          <Card title="Recently approved" style={styles.col}>
+            <RevisionList items={overview.data.recentlyApproved} empty="No revision has been approved yet." testID="recently-approved" />
           </Card>
         </View>
       ) : null}

@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { allow, currentUser } from '../auth/middleware';
 import type { AppContext } from '../context';
 
-/** The Overview screen's three lists: my drafts, returned to me, awaiting my review. */
+/** The Overview screen's lists: my drafts, returned to me, awaiting my review, recently approved. */
 export function overviewRoutes(ctx: AppContext): Router {
   const router = Router();
   router.get('/', allow(), async (req, res) => {
@@ -32,7 +32,8 @@ export function overviewRoutes(ctx: AppContext): Router {
     const awaiting = user.role === 'reviewer'
       ? await base().where('revision.status', 'in_review').whereNot('revision.author_id', user.id).orderBy('revision.submitted_at', 'asc')
       : [];
-    res.json({ myDrafts: shape(myDrafts), returnedToMe: shape(returned), awaitingMyReview: shape(awaiting) });
+    const approved = await base().where('revision.status', 'approved').orderBy('revision.decided_at', 'desc').limit(10);
+    res.json({ myDrafts: shape(myDrafts), returnedToMe: shape(returned), awaitingMyReview: shape(awaiting), recentlyApproved: shape(approved) });
   });
   return router;
 }
