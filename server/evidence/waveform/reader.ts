@@ -1,0 +1,98 @@
+// Public entry points of the capture reader. Files are streamed in bounded memory; the text variants are
+// for small inputs (tests, pasted samples).
+import {
+  analysisOptionsSchema,
+  type AnalysisOptions,
+  type WaveformAnalysis,
+} from '../../../shared/schema/waveform';
+import { analyseSource } from './analyse';
+import { readLayout } from './layout';
+import { readPass } from './samples';
+import { memorySource, openFileSource, type ByteSource } from './source';
+
+export { WaveformError, type WaveformErrorCode } from './errors';
+
+async function withFile<T>(path: string, use: (source: ByteSource) => Promise<T>): Promise<T> {
+  const source = await openFileSource(path);
+  try {
+    return await use(source);
+  } finally {
+    await source.close();
+  }
+}
+
+const textSource = (text: string) => memorySource(Buffer.from(text, 'utf8'));
+
+/**
+ * Reads and analyses a capture file. Throws `WaveformError` when the file is not a usable capture, and
+ * a zod error when `options` are invalid. A capture that never reaches the safe voltage is a valid
+ * result (`timeToSafe: null`), not an error.
+ */
+export async function analyseCaptureFile(path: string, options: AnalysisOptions): Promise<WaveformAnalysis> {
+  const parsed = analysisOptionsSchema.parse(options);
+  return withFile(path, (source) => analyseSource(source, parsed));
+}
+
+/** As `analyseCaptureFile`, for a capture already in memory as text. */
+export async function analyseCaptureText(text: string, options: AnalysisOptions): Promise<WaveformAnalysis> {
+  return analyseSource(textSource(text), analysisOptionsSchema.parse(options));
+}
+
+export interface CaptureOutline {
+  /** Channel names in column order (the time column excluded), for picking the voltage and marker. */
+  channels: string[];
+  /** Label of the time column, or null when time comes from the metadata's start + increment. */
+  timeColumn: string | null;
+  notes: string[];
+}
+
+/** Channels and time base of a capture, read from its head only. */
+export async function outlineCaptureFile(path: string): Promise<CaptureOutline> {
+  return withFile(path, async (source) => {
+    const layout = await readLayout(source);
+    return {
+      channels: layout.channelNames,
+      timeColumn: layout.timeColumn === null ? null : layout.columns[layout.timeColumn].label,
+      notes: layout.notes,
+    };
+  });
+}
+
+export interface CaptureTable {
+  channels: string[];
+  /** Seconds. */
+  time: number[];
+  /** One array per channel, volts (unit hints applied). */
+  values: number[][];
+  skipped: number;
+  truncatedLastLine: boolean;
+}
+
+/** Every sample of a small capture, all channels. Holds everything in memory: not for large files. */
+export async function readCaptureText(text: string): Promise<CaptureTable> {
+  const source = textSource(text);
+  const layout = await readLayout(source);
+  const table: CaptureTable = {
+    channels: layout.channelNames,
+    time: [],
+    values: layout.channelColumns.map(() => []),
+    skipped: 0,
+    truncatedLastLine: false,
+  };
+  const pass = await readPass(
+    source,
+    layout,
+    layout.channelColumns,
+    layout.channelScales,
+    { from: layout.dataOffset, to: source.size, firstRow: 0 },
+    ({ data, stride, count }) => {
+      for (let r = 0; r < count; r++) {
+        table.time.push(data[r * stride]);
+        table.values.forEach((column, k) => column.push(data[r * stride + 1 + k]));
+      }
+    },
+  );
+  table.skipped = pass.skipped;
+  table.truncatedLastLine = pass.truncatedLastLine;
+  return table;
+}
