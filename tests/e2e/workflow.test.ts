@@ -1,7 +1,9 @@
 // The whole review story on a phone: an engineer creates a dossier and a design, a reviewer returns it,
 // revision 2 changes a resistor, the diff shows it, and the reviewer approves.
+import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { pdfsig } from '../pdf/poppler';
 import { openBrowser, PHONE, WIDE, type Browser, type WatchedPage } from './browser';
 
 let browser: Browser;
@@ -131,6 +133,17 @@ describe('dossier review story at phone width', () => {
     await reviewer.page.getByTestId('approve').click();
     await expect.poll(() => reviewer.page.getByTestId('decision').textContent(), { timeout: 20_000 }).toMatch(/Approved by Marta Kowalczyk/);
     await reviewer.shot('workflow-07-approved-phone');
+
+    // The assessor's copy: the export button downloads the signed PDF, which poppler's pdfsig validates.
+    await engineer.page.goto(`${browser.server.url}/revisions/${second}`);
+    await expect.poll(() => engineer.page.getByTestId('export-pdf').textContent()).toBe('Export signed PDF');
+    const download = engineer.page.waitForEvent('download');
+    await engineer.page.getByTestId('export-pdf').click();
+    const file = join(browser.server.dataDir, 'exported.pdf');
+    await (await download).saveAs(file);
+    const sig = await pdfsig(file);
+    expect(sig.stdout).toContain('Signature is Valid.');
+    expect(sig.stdout).toContain('Total document signed');
 
     expect(engineer.problems).toEqual([]);
     expect(reviewer.problems).toEqual([]);
