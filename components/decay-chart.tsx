@@ -31,7 +31,8 @@ interface Props {
 const PAD = { left: 48, right: 16, top: 22, bottom: 40 };
 const WORST_DASH = '8 4';
 const LIMIT_DASH = '4 4';
-const MEASURED_DASHES = ['2 3', '1 5', '6 2 1 2'];
+// The first measurement is drawn solid and thick so it stands out over the predicted curves.
+const MEASURED_DASHES: Array<string | undefined> = [undefined, '6 3', '1 4'];
 
 interface Axis {
   unit: 'ms' | 's';
@@ -128,7 +129,7 @@ export function DecayChart({ curve, requirement, measured = [], testID = 'decay-
         {curve.length > 0 ? <LegendEntry stroke={colors.chartNominal} width={2.5} label="Nominal (nominal parts, nominal bus)" testID={`${testID}-legend-nominal`} /> : null}
         {curve.length > 0 ? <LegendEntry stroke={colors.chartWorst} width={2} dash={WORST_DASH} label="Worst case (slowest parts, maximum bus)" testID={`${testID}-legend-worst`} /> : null}
         {traces.map((m, i) => (
-          <LegendEntry key={m.name} stroke={colors.chartMeasured} width={2} dash={MEASURED_DASHES[i % MEASURED_DASHES.length]} label={`Measured: ${m.name}`} testID={`${testID}-legend-measured-${i}`} />
+          <LegendEntry key={m.name} stroke={colors.chartMeasured} width={3} dash={MEASURED_DASHES[i % MEASURED_DASHES.length]} label={`Measured: ${m.name}`} testID={`${testID}-legend-measured-${i}`} />
         ))}
       </View>
       <Text style={type.small}>Bus voltage (V)</Text>
@@ -181,7 +182,7 @@ export function DecayChart({ curve, requirement, measured = [], testID = 'decay-
               </>
             ) : null}
             {traces.map((m, i) => (
-              <Path key={m.name} d={path(m.points) ?? ''} stroke={colors.chartMeasured} strokeWidth={2} strokeDasharray={MEASURED_DASHES[i % MEASURED_DASHES.length]} fill="none" />
+              <Path key={m.name} d={path(m.points) ?? ''} stroke={colors.chartMeasured} strokeWidth={3} strokeOpacity={0.85} strokeDasharray={MEASURED_DASHES[i % MEASURED_DASHES.length]} fill="none" />
             ))}
             {safe !== null && tNominal !== null ? <Circle cx={X(tNominal)} cy={y(safe)} r={4} fill={colors.surface} stroke={colors.chartNominal} strokeWidth={2} /> : null}
             {safe !== null && tWorst !== null ? <Circle cx={X(tWorst)} cy={y(safe)} r={4} fill={colors.chartWorst} stroke={colors.chartWorst} strokeWidth={2} /> : null}
