@@ -66,7 +66,8 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
           : `Frozen: ${revision.status.replace('_', ' ')}.`;
 
   return (
-    <View style={[styles.columns, wide && styles.wide]} testID="design-tab">
+    // On a phone a frozen revision leads with its results: that is what a reader opens it for.
+    <View style={[styles.columns, wide && styles.wide, !wide && !editable && styles.resultsFirst]} testID="design-tab">
       <View style={[styles.col, wide && styles.inputs]}>
         <Card title="Requirement (from the dossier)">
           <Text style={type.body}>
@@ -125,6 +126,7 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
 const styles = StyleSheet.create({
   columns: { gap: space.lg },
   wide: { flexDirection: 'row', alignItems: 'flex-start' },
+  resultsFirst: { flexDirection: 'column-reverse' },
   col: { gap: space.lg },
   inputs: { flex: 5 },
   results: { flex: 6 },
