@@ -3,6 +3,7 @@ import { line } from 'd3-shape';
 import { useState } from 'react';
 import { StyleSheet, Text, View, type LayoutChangeEvent } from 'react-native';
 import Svg, { Circle, G, Line, Path, Text as SvgText } from 'react-native-svg';
+import { LegendEntry } from './chart-legend';
 import { colors, fonts, space, type } from '../constants/theme';
 import type { CurvePoint } from '../shared/schema/discharge';
 import { formatQuantity } from '../shared/units';
@@ -200,20 +201,7 @@ export function DecayChart({ curve, requirement, measured = [], testID = 'decay-
   );
 }
 
-function LegendEntry({ label, stroke, width, dash, testID }: { label: string; stroke: string; width: number; dash?: string; testID: string }) {
-  return (
-    <View style={styles.legendEntry} testID={testID}>
-      <Svg width={36} height={10}>
-        <Line x1={0} x2={36} y1={5} y2={5} stroke={stroke} strokeWidth={width} strokeDasharray={dash} />
-      </Svg>
-      <Text style={[type.small, styles.legendText]}>{label}</Text>
-    </View>
-  );
-}
-
 const styles = StyleSheet.create({
   wrap: { gap: space.sm },
   legend: { gap: space.xs },
-  legendEntry: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
-  legendText: { color: colors.ink, flexShrink: 1 },
 });

@@ -3,6 +3,7 @@ import { line } from 'd3-shape';
 import { useState } from 'react';
 import { StyleSheet, Text, View, type LayoutChangeEvent } from 'react-native';
 import Svg, { G, Line, Path, Text as SvgText } from 'react-native-svg';
+import { LegendEntry } from './chart-legend';
 import { colors, fonts, space, type } from '../constants/theme';
 import { formatQuantity } from '../shared/units';
 
@@ -57,8 +58,8 @@ export function RingingChart({ before, after, beforeLabel, afterLabel, unit, yTi
   return (
     <View style={styles.wrap} testID={testID}>
       <View style={styles.legend}>
-        <LegendEntry dash={BEFORE_DASH} stroke={colors.chartWorst} label={beforeLabel} testID={`${testID}-legend-before`} />
-        <LegendEntry stroke={colors.chartNominal} label={afterLabel} testID={`${testID}-legend-after`} />
+        <LegendEntry width={1.5} dash={BEFORE_DASH} stroke={colors.chartWorst} label={beforeLabel} testID={`${testID}-legend-before`} />
+        <LegendEntry width={2.5} stroke={colors.chartNominal} label={afterLabel} testID={`${testID}-legend-after`} />
       </View>
       <Text style={type.small}>{yTitle}</Text>
       <View onLayout={onLayout} accessibilityRole="image" accessibilityLabel={summary}>
@@ -98,20 +99,7 @@ export function RingingChart({ before, after, beforeLabel, afterLabel, unit, yTi
   );
 }
 
-function LegendEntry({ label, stroke, dash, testID }: { label: string; stroke: string; dash?: string; testID: string }) {
-  return (
-    <View style={styles.legendEntry} testID={testID}>
-      <Svg width={32} height={10}>
-        <Line x1={0} x2={32} y1={5} y2={5} stroke={stroke} strokeWidth={dash ? 1.5 : 2.5} strokeDasharray={dash} />
-      </Svg>
-      <Text style={[type.small, styles.legendText]}>{label}</Text>
-    </View>
-  );
-}
-
 const styles = StyleSheet.create({
   wrap: { gap: space.sm },
   legend: { gap: space.xs },
-  legendEntry: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
-  legendText: { color: colors.ink, flexShrink: 1 },
 });

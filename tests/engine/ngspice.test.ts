@@ -5,56 +5,17 @@ import { describe, expect, it } from 'vitest';
 import { computeDischarge, SPICE_MEASURE, spiceNetlist } from '../../shared/engine';
 import type { Design, Requirement } from '../../shared/schema/discharge';
 import { simulate } from '../support/ngspice';
-import { requirement } from './fixtures';
-
-const logUniform = (lo: number, hi: number) =>
-  fc.double({ min: Math.log10(lo), max: Math.log10(hi), noNaN: true }).map((e) => 10 ** e);
+import { designOf, logUniform, networkArb, requirement } from './fixtures';
 
 const designArb = fc
   .record({
-    capacitance: logUniform(1e-7, 5e-3),
-    capSeries: fc.integer({ min: 1, max: 4 }),
-    capParallel: fc.integer({ min: 1, max: 3 }),
-    tolMinus: fc.double({ min: 0, max: 0.3, noNaN: true }),
-    tolPlus: fc.double({ min: 0, max: 0.5, noNaN: true }),
-    resistance: logUniform(1e3, 1e7),
-    resSeries: fc.integer({ min: 1, max: 5 }),
-    resParallel: fc.integer({ min: 1, max: 3 }),
-    rTol: fc.double({ min: 0, max: 0.1, noNaN: true }),
-    tcr: fc.double({ min: -300, max: 300, noNaN: true }),
-    drift: fc.double({ min: 0, max: 0.05, noNaN: true }),
-    tMin: fc.double({ min: -40, max: 25, noNaN: true }),
-    tMax: fc.double({ min: 25, max: 125, noNaN: true }),
-    vMax: fc.double({ min: 50, max: 1500, noNaN: true }),
-    nominalShare: fc.double({ min: 0.7, max: 1, noNaN: true }),
+    net: networkArb(50),
     safeShare: fc.double({ min: 0.02, max: 0.6, noNaN: true }),
     maxTime: logUniform(0.1, 600),
   })
-  .map((r): { requirement: Requirement; design: Design } => ({
-    requirement: requirement({ safeVoltage: r.vMax * r.nominalShare * r.safeShare, maxTime: r.maxTime }),
-    design: {
-      bus: { nominalVoltage: r.vMax * r.nominalShare, maxVoltage: r.vMax },
-      capacitors: {
-        capacitance: r.capacitance,
-        series: r.capSeries,
-        parallel: r.capParallel,
-        toleranceMinus: r.tolMinus,
-        tolerancePlus: r.tolPlus,
-      },
-      bleeder: {
-        resistance: r.resistance,
-        series: r.resSeries,
-        parallel: r.resParallel,
-        tolerance: r.rTol,
-        tcrPpmPerK: r.tcr,
-        drift: r.drift,
-        powerRating: 2,
-        elementVoltage: 1000,
-        derating: 0.5,
-      },
-      ambient: { min: r.tMin, max: r.tMax },
-      active: null,
-    },
+  .map(({ net, safeShare, maxTime }): { requirement: Requirement; design: Design } => ({
+    requirement: requirement({ safeVoltage: net.vMax * net.nominalShare * safeShare, maxTime }),
+    design: designOf(net),
   }));
 
 const designs = fc.sample(designArb, { seed: 20_240_611, numRuns: 24 });

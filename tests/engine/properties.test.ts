@@ -12,10 +12,7 @@ import {
   type SuggestDesign,
 } from '../../shared/engine';
 import type { Design, DischargeResult, Requirement } from '../../shared/schema/discharge';
-import { requirement } from './fixtures';
-
-const logUniform = (lo: number, hi: number) =>
-  fc.double({ min: Math.log10(lo), max: Math.log10(hi), noNaN: true }).map((e) => 10 ** e);
+import { designOf, logUniform, networkArb, requirement } from './fixtures';
 
 const activeArb = fc.oneof(
   fc.constant(null),
@@ -36,21 +33,7 @@ const activeArb = fc.oneof(
 const inputArb = (active: fc.Arbitrary<Design['active']> = fc.constant(null)) =>
   fc
     .record({
-      capacitance: logUniform(1e-7, 5e-3),
-      capSeries: fc.integer({ min: 1, max: 4 }),
-      capParallel: fc.integer({ min: 1, max: 3 }),
-      tolMinus: fc.double({ min: 0, max: 0.3, noNaN: true }),
-      tolPlus: fc.double({ min: 0, max: 0.5, noNaN: true }),
-      resistance: logUniform(1e3, 1e7),
-      resSeries: fc.integer({ min: 1, max: 5 }),
-      resParallel: fc.integer({ min: 1, max: 3 }),
-      rTol: fc.double({ min: 0, max: 0.1, noNaN: true }),
-      tcr: fc.double({ min: -300, max: 300, noNaN: true }),
-      drift: fc.double({ min: 0, max: 0.05, noNaN: true }),
-      tMin: fc.double({ min: -40, max: 25, noNaN: true }),
-      tMax: fc.double({ min: 25, max: 125, noNaN: true }),
-      vMax: fc.double({ min: 20, max: 1500, noNaN: true }),
-      nominalShare: fc.double({ min: 0.7, max: 1, noNaN: true }),
+      net: networkArb(20),
       safeVoltage: fc.double({ min: 10, max: 120, noNaN: true }),
       maxTime: logUniform(0.1, 600),
       maxCharge: fc.option(logUniform(1e-6, 1e-3), { nil: null }),
@@ -58,35 +41,8 @@ const inputArb = (active: fc.Arbitrary<Design['active']> = fc.constant(null)) =>
       active,
     })
     .map((r): { requirement: Requirement; design: Design } => ({
-      requirement: requirement({
-        safeVoltage: r.safeVoltage,
-        maxTime: r.maxTime,
-        maxCharge: r.maxCharge,
-        maxEnergy: r.maxEnergy,
-      }),
-      design: {
-        bus: { nominalVoltage: r.vMax * r.nominalShare, maxVoltage: r.vMax },
-        capacitors: {
-          capacitance: r.capacitance,
-          series: r.capSeries,
-          parallel: r.capParallel,
-          toleranceMinus: r.tolMinus,
-          tolerancePlus: r.tolPlus,
-        },
-        bleeder: {
-          resistance: r.resistance,
-          series: r.resSeries,
-          parallel: r.resParallel,
-          tolerance: r.rTol,
-          tcrPpmPerK: r.tcr,
-          drift: r.drift,
-          powerRating: 2,
-          elementVoltage: 1000,
-          derating: 0.5,
-        },
-        ambient: { min: r.tMin, max: r.tMax },
-        active: r.active,
-      },
+      requirement: requirement({ safeVoltage: r.safeVoltage, maxTime: r.maxTime, maxCharge: r.maxCharge, maxEnergy: r.maxEnergy }),
+      design: designOf(r.net, r.active),
     }));
 
 const timeOf = (result: DischargeResult) => result.checks.find((c) => c.id === 'discharge-time')?.value ?? NaN;
