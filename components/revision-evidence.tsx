@@ -14,6 +14,7 @@ import { Button } from './ui/button';
 import { Card } from './ui/card';
 import { Choice } from './ui/choice';
 import { Message } from './ui/message';
+import { TextField } from './ui/text-field';
 
 const KINDS: Array<{ value: EvidenceKind; label: string }> = [
   { value: 'waveform', label: 'Scope capture (CSV/TXT)' },
@@ -37,6 +38,7 @@ const bytes = (n: number) => (n >= 1024 * 1024 ? `${(n / 1024 / 1024).toFixed(1)
 export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me }) {
   const editable = revision.status === 'draft' && (revision.author.id === me.id || me.role === 'admin');
   const [kind, setKind] = useState<EvidenceKind>('waveform');
+  const [capture, setCapture] = useState({ channel: '', markerChannel: '', t0: '' });
   const upload = useUploadEvidence(revision.id, revision.dossierId);
   const remove = useRemoveEvidence(revision.id);
   const measured = measuredTraces(revision);
@@ -44,7 +46,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
   async function pick() {
     const picked = await DocumentPicker.getDocumentAsync({ type: PICKER_TYPES[kind], multiple: false, copyToCacheDirectory: false });
     const asset = picked.canceled ? null : picked.assets[0];
-    if (asset?.file) upload.mutate({ file: asset.file, name: asset.name, kind });
+    if (asset?.file) upload.mutate({ file: asset.file, name: asset.name, kind, ...(kind === 'waveform' ? capture : {}) });
   }
 
   return (
@@ -52,6 +54,13 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
       {editable ? (
         <Card title="Add evidence">
           <Choice label="Kind" testID="evidence-kind" options={KINDS} value={kind} onChange={setKind} />
+          {kind === 'waveform' ? (
+            <View style={styles.fields}>
+              <TextField label="Voltage channel (optional)" testID="capture-channel" placeholder="first channel" value={capture.channel} onChangeText={(channel) => setCapture({ ...capture, channel })} hint="Column name or 0-based index" />
+              <TextField label="Disconnect marker channel (optional)" testID="capture-marker" placeholder="none" value={capture.markerChannel} onChangeText={(markerChannel) => setCapture({ ...capture, markerChannel })} hint="Its edge marks the disconnect instant" />
+              <TextField label="Disconnect instant t0 (optional, s)" testID="capture-t0" placeholder="detected" value={capture.t0} onChangeText={(t0) => setCapture({ ...capture, t0 })} hint="On the capture's own time axis" />
+            </View>
+          ) : null}
           {upload.progress !== null ? (
             <View style={styles.progress} testID="upload-progress">
               <View style={[styles.bar, { width: `${Math.round(upload.progress * 100)}%` }]} />
@@ -88,6 +97,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
                 Channel {e.analysis.channel}: V0 {formatQuantity(e.analysis.v0, 'V')}; {e.analysis.samples.toLocaleString()} samples
                 {e.analysis.skipped ? `, ${e.analysis.skipped} unreadable skipped` : ''}.
               </Text>
+              {e.analysis.channels.length > 1 ? <Text style={type.small}>Channels in the file: {e.analysis.channels.join(', ')}.</Text> : null}
               <Text style={[type.body, styles.strong]}>
                 {e.analysis.timeToSafe === null
                   ? `✕ Never fell below ${formatQuantity(revision.dossier.requirement.safeVoltage, 'V')} in the capture.`
@@ -122,6 +132,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
 const styles = StyleSheet.create({
   wrap: { gap: space.lg },
   button: { alignSelf: 'flex-start' },
+  fields: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   hash: { fontSize: 11, color: colors.inkMuted },
   analysis: { gap: space.xs, backgroundColor: colors.paper, padding: space.md, borderRadius: radius.md },
   strong: { fontFamily: fonts.semibold },

@@ -51,6 +51,30 @@ describe('evidence uploads', () => {
     expect(existsSync(join(server.dataDir, 'evidence', res.body.sha256))).toBe(true);
   });
 
+  it('when the engineer names the voltage and marker channels, then those are the ones analysed', async () => {
+    const { engineer, id } = await draft('Two channels');
+    // CH1 is a relay marker (0 V before, 5 V after the disconnect at t = 0.2 s); CH2 the bus, τ = 0.8 s.
+    const rows = ['Time (s),Relay (V),Bus (V)'];
+    for (let i = 0; i < 3000; i++) {
+      const t = i * 0.002;
+      rows.push(`${t.toFixed(4)},${t < 0.2 ? 0 : 5},${(t < 0.2 ? 500 : 500 * Math.exp(-(t - 0.2) / 0.8)).toFixed(3)}`);
+    }
+    const res = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'waveform')
+      .field('channel', 'Bus')
+      .field('markerChannel', '0')
+      .attach('file', Buffer.from(rows.join('\n')), 'two-channels.csv');
+    expect(res.status).toBe(201);
+    expect(res.body.analysis.channel).toBe('Bus (V)');
+    expect(res.body.analysis.t0Source).toBe('marker');
+    expect(res.body.analysis.t0).toBeCloseTo(0.2, 2);
+    expect(res.body.analysis.tau).toBeCloseTo(0.8, 2);
+    const missing = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').field('channel', 'CH9').attach('file', Buffer.from(rows.join('\n')), 'x.csv');
+    expect(missing.status).toBe(422);
+    expect(missing.body.error.message).toMatch(/CH9/);
+  });
+
   it('when a capture never reaches the safe voltage, then it is stored as a failing measurement, not an error', async () => {
     const { engineer, id } = await draft('Slow capture');
     const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(622, 50, 8)), 'slow.csv');
