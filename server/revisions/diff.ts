@@ -1,5 +1,6 @@
 import { createTwoFilesPatch, diffLines } from 'diff';
-import { ALL_DESIGN_FIELDS, formatField, getPath, type FieldKind } from '../../shared/design-fields';
+import { ALL_DESIGN_FIELDS, formatField, type FieldKind } from '../../shared/design-fields';
+import type { QuantityUnit } from '../../shared/units';
 import type { Revision } from './store';
 
 export interface InputChange {
@@ -56,12 +57,33 @@ function show(kind: FieldKind | undefined, value: unknown): string {
   return String(value);
 }
 
-function labelFor(path: string): string {
+// Snubber fields in plain words (the rest of the design is described in shared/design-fields.ts).
+const SNUBBER_WORDS: Record<string, string> = {
+  name: 'name', location: 'location', kind: 'kind', resistance: 'resistance', capacitance: 'capacitance',
+  capacitanceTolerance: 'capacitance tolerance', powerRating: 'resistor power rating', derating: 'derating',
+  capacitorVoltageRating: 'capacitor voltage rating', switchingVoltage: 'switching voltage', overshoot: 'overshoot',
+  switchingFrequency: 'switching frequency', accessible: 'accessible after switch-off', parasiticInductance: 'loop inductance',
+  parasiticCapacitance: 'node capacitance', switchedCurrent: 'switched current', fallTime: 'current fall time',
+  minOnTime: 'minimum on-time', leakageInductance: 'leakage inductance', peakCurrent: 'peak current',
+  clampVoltage: 'clamp voltage', reflectedVoltage: 'reflected voltage',
+};
+const SNUBBER_UNITS: Record<string, QuantityUnit> = {
+  resistance: 'Ω', capacitance: 'F', powerRating: 'W', capacitorVoltageRating: 'V', switchingVoltage: 'V', switchingFrequency: 'Hz',
+  parasiticInductance: 'H', parasiticCapacitance: 'F', switchedCurrent: 'A', fallTime: 's', minOnTime: 's', leakageInductance: 'H',
+  peakCurrent: 'A', clampVoltage: 'V', reflectedVoltage: 'V',
+};
+
+function describePath(path: string, design: Revision['design']): { label: string; kind?: FieldKind } {
   const known = KNOWN.get(path);
-  if (known) return known.label;
+  if (known) return { label: known.label, kind: known.kind };
   const snub = /^snubbers\[(\d+)]\.(\w+)$/.exec(path);
-  if (snub) return `Snubber ${Number(snub[1]) + 1}: ${snub[2]}`;
-  return path;
+  if (snub) {
+    const name = design.snubbers?.[Number(snub[1])]?.name || `#${Number(snub[1]) + 1}`;
+    const unit = SNUBBER_UNITS[snub[2]];
+    const kind: FieldKind | undefined = unit ? { type: 'quantity', unit } : ['capacitanceTolerance', 'derating', 'overshoot'].includes(snub[2]) ? { type: 'percent' } : undefined;
+    return { label: `Snubber ${name}: ${SNUBBER_WORDS[snub[2]] ?? snub[2]}`, kind };
+  }
+  return { label: path };
 }
 
 /** diffRevisions: inputs in engineering units with % change, checks and verdict, notes line by line, evidence by hash. */
@@ -77,13 +99,13 @@ export function diffRevisions(current: Revision, previous: Revision): RevisionDi
     .filter((p) => JSON.stringify(before.get(p) ?? null) !== JSON.stringify(after.get(p) ?? null))
     .sort((a, b) => order(a) - order(b) || a.localeCompare(b))
     .map((path) => {
-      const kind = KNOWN.get(path)?.kind;
+      const { label, kind } = describePath(path, current.design.snubbers ? current.design : previous.design);
       const a = before.get(path);
       const b = after.get(path);
       const changePct = typeof a === 'number' && typeof b === 'number' && a !== 0 ? ((b - a) / Math.abs(a)) * 100 : null;
       return {
         path,
-        label: labelFor(path),
+        label,
         from: show(kind, a),
         to: show(kind, b),
         fromValue: (a ?? null) as number | string | null,

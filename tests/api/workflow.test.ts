@@ -101,6 +101,34 @@ describe('the life of a revision', () => {
   });
 });
 
+describe('snubbers across revisions', () => {
+  it('when a snubber resistor changes in revision 2, then the diff names the snubber and shows the values in units', async () => {
+    const { engineer, dossier, draftId } = await newDossier('Snubber diff');
+    const snubber = {
+      name: 'R12/C7', location: 'across Q3', kind: 'rc', resistance: 82, capacitance: 330e-12, capacitanceTolerance: 0.1, powerRating: 0.5,
+      derating: 0.6, capacitorVoltageRating: 100, switchingVoltage: 48, overshoot: 0.3, switchingFrequency: 250e3, accessible: false,
+      parasiticInductance: 633e-9, parasiticCapacitance: 100e-12,
+    };
+    const first = await engineer.patch(`/api/revisions/${draftId}`).send({ design: { ...demoDesign, snubbers: [snubber] } });
+    expect(first.body.results.checks.map((c: { id: string }) => c.id)).toContain('snubber-power:0');
+    await engineer.post(`/api/revisions/${draftId}/submit`);
+    const reviewer = await server.signIn('reviewer');
+    await reviewer.post(`/api/revisions/${draftId}/decision`).send({ decision: 'return', comment: 'Damping below 0.5 at C−.' });
+    const second = (await engineer.post(`/api/dossiers/${dossier.id}/revisions`).send({})).body;
+    await engineer.patch(`/api/revisions/${second.id}`).send({ design: { ...demoDesign, snubbers: [{ ...snubber, resistance: 100 }] } });
+    const diff = (await engineer.get(`/api/revisions/${second.id}/diff`)).body;
+    expect(diff.inputs).toEqual([expect.objectContaining({ path: 'snubbers[0].resistance', label: 'Snubber R12/C7: resistance', from: '82 Ω', to: '100 Ω' })]);
+  });
+
+  it('when a snubber is half typed, then the draft still saves and the verdict is incomplete', async () => {
+    const { engineer, draftId } = await newDossier('Half-typed snubber');
+    const res = await engineer.patch(`/api/revisions/${draftId}`).send({ design: { ...demoDesign, snubbers: [{ kind: 'rc', name: 'R5', resistance: 47 }] } });
+    expect(res.status).toBe(200);
+    expect(res.body.results.verdict).toBe('incomplete');
+    expect(res.body.results.missing).toContain('design.snubbers.0.capacitance');
+  });
+});
+
 describe('separation of duties and permissions', () => {
   it('when a reviewer authored a revision, then they cannot decide on it', async () => {
     // The demo reviewer is promoted to engineer for a moment to author a revision.
