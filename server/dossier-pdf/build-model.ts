@@ -1,15 +1,10 @@
 import type { Knex } from 'knex';
-import { ALL_DESIGN_FIELDS } from '../../shared/design-fields';
 import { readAuditChain } from '../audit/chain';
 import type { AppContext } from '../context';
 import { diffRevisions } from '../revisions/diff';
 import { loadDossier, loadRevision, revisionContentHash } from '../revisions/store';
 import type { SigningIdentity } from './certificate';
 import type { DossierPdfModel } from './model';
-
-const unitOf = new Map(
-  ALL_DESIGN_FIELDS.map((f) => [f.path, f.kind.type === 'quantity' ? f.kind.unit : f.kind.type === 'celsius' ? '°C' : f.kind.type === 'ppm' ? 'ppm/K' : '']),
-);
 
 /** Gathers everything the PDF prints about one revision, from the database, into the renderer's model. */
 export async function buildPdfModel(ctx: AppContext, db: Knex | Knex.Transaction, revisionId: number, identity: SigningIdentity): Promise<DossierPdfModel> {
@@ -60,7 +55,7 @@ export async function buildPdfModel(ctx: AppContext, db: Knex | Knex.Transaction
     diff: diff
       ? {
           against: { id: diff.against.id, number: diff.against.number },
-          inputs: diff.inputs.map((c) => ({ path: `design.${c.path}`, label: c.label, from: c.fromValue, to: c.toValue, unit: unitOf.get(c.path) ?? '', changePct: c.changePct })),
+          inputs: diff.inputs.map((c) => ({ path: `design.${c.path}`, label: c.label, from: c.fromValue, to: c.toValue, unit: c.unit, changePct: c.changePct })),
           checks: diff.checks.map((c) => ({ id: c.id, label: c.label, fromPass: c.from?.pass ?? null, toPass: c.to?.pass ?? null, from: c.from?.value ?? null, to: c.to?.value ?? null, unit: (c.to ?? c.from)?.unit })),
           notesDiff: diff.notes.changed ? diff.notes.patch : '',
           evidenceAdded: diff.evidence.added.map((e) => ({ originalName: e.name, sha256: e.sha256 })),

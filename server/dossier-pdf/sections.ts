@@ -750,6 +750,8 @@ function analysisTable(group: readonly Analysed[], req: Requirement): Content {
 
 function valueText(value: number | string | boolean | null, unit: string): string {
   if (value === null) return '—';
+  // Tolerances, derating and drift are stored as fractions and read as percentages.
+  if (typeof value === 'number' && unit === '%') return percent(value);
   if (typeof value === 'number') return quantity(value, unit);
   if (typeof value === 'boolean') return value ? 'yes' : 'no';
   return value;

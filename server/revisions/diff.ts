@@ -1,5 +1,5 @@
 import { createTwoFilesPatch, diffLines } from 'diff';
-import { ALL_DESIGN_FIELDS, formatField, type FieldKind } from '../../shared/design-fields';
+import { ALL_DESIGN_FIELDS, fieldUnitLabel, formatField, type FieldKind } from '../../shared/design-fields';
 import type { QuantityUnit } from '../../shared/units';
 import type { Revision } from './store';
 
@@ -10,6 +10,8 @@ export interface InputChange {
   to: string;
   fromValue: number | string | null;
   toValue: number | string | null;
+  /** SI unit of the raw values ("%" for fractions shown as percent, "" for counts and text). */
+  unit: string;
   /** Relative change in %, when both sides are numbers and the old one is not zero. */
   changePct: number | null;
 }
@@ -106,6 +108,7 @@ export function diffRevisions(current: Revision, previous: Revision): RevisionDi
       return {
         path,
         label,
+        unit: kind ? fieldUnitLabel(kind) : '',
         from: show(kind, a),
         to: show(kind, b),
         fromValue: (a ?? null) as number | string | null,
