@@ -43,7 +43,7 @@ export function Choice<T extends string>({ label, testID, options, value, onChan
 const styles = StyleSheet.create({
   wrap: { gap: space.xs },
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
-  option: { minHeight: 40, paddingHorizontal: space.md, justifyContent: 'center', borderRadius: radius.md, borderWidth: 1, borderColor: colors.line, backgroundColor: colors.surface },
+  option: { minHeight: 40, maxWidth: '100%', flexShrink: 1, paddingHorizontal: space.md, paddingVertical: space.xs, justifyContent: 'center', borderRadius: radius.md, borderWidth: 1, borderColor: colors.line, backgroundColor: colors.surface },
   selected: { borderColor: colors.brand, backgroundColor: colors.brandSoft },
   disabled: { opacity: 0.6 },
   text: { fontFamily: fonts.medium, fontSize: 14, color: colors.inkMuted },

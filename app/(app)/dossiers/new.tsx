@@ -68,10 +68,8 @@ export default function NewDossierScreen() {
       <Card title="Dossier">
         <TextField label="Title" testID="dossier-title" placeholder="e.g. DC-link residual voltage at service access" value={title} onChangeText={setTitle} error={errorAt('title')} />
       </Card>
-      <Card title="Requirement">
-        <Text style={type.small}>The limit is yours to enter from the edition of the standard you work to; presets are starting points only.</Text>
-        <RequirementEditor value={requirement} onChange={setRequirement} testIDPrefix="dossier-req" serverErrors={errors} />
-      </Card>
+      <Text style={type.small}>The limit is yours to enter from the edition of the standard you work to; presets are starting points only.</Text>
+      <RequirementEditor value={requirement} onChange={setRequirement} testIDPrefix="dossier-req" serverErrors={errors} />
       {errors.find((e) => e.path === '') ? <Message tone="error" text={errors.find((e) => e.path === '')!.message} /> : null}
       {errors.length && !errors.find((e) => e.path === '') ? <Message tone="error" text="Some fields need attention (marked above)." testID="new-dossier-errors" /> : null}
       <View style={styles.actions}>
