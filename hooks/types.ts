@@ -1,6 +1,6 @@
 // Shapes of the API's answers as the app reads them (the server's JSON contract, DESIGN.md §5).
-import type { DesignDraft, DischargeResult, Requirement } from '../shared/schema/discharge';
-import type { WaveformAnalysis } from '../shared/schema/waveform';
+import type { EvidenceView, RevisionView } from '../shared/schema/api';
+import type { DischargeResult, Requirement } from '../shared/schema/discharge';
 import type { RevisionStatus } from '../shared/schema/workflow';
 
 export type Verdict = DischargeResult['verdict'];
@@ -51,39 +51,9 @@ export interface Dossier {
   revisions: RevisionListItem[];
 }
 
-export interface EvidenceRecord {
-  id: number;
-  revisionId: number;
-  kind: 'waveform' | 'image' | 'datasheet' | 'report' | 'other';
-  originalName: string;
-  mediaType: string;
-  size: number;
-  sha256: string;
-  analysis: WaveformAnalysis | null;
-  uploadedBy: Person;
-  uploadedAt: string;
-}
+export type EvidenceRecord = EvidenceView;
 
-export interface Revision {
-  id: number;
-  dossierId: number;
-  number: number;
-  status: RevisionStatus;
-  design: DesignDraft;
-  notes: string;
-  results: DischargeResult;
-  engineVersion: string;
-  author: Person;
-  createdFrom: number | null;
-  contentHash: string | null;
-  createdAt: string;
-  updatedAt: string;
-  submittedAt: string | null;
-  decidedAt: string | null;
-  evidence: EvidenceRecord[];
-  decision: { decision: 'approve' | 'return'; comment: string; contentHash: string; reviewer: Person; at: string } | null;
-  comments: Array<{ id: number; author: Person; body: string; at: string }>;
-  signedPdf: { sha256: string; size: number; createdAt: string; signerKind: string } | null;
+export interface Revision extends RevisionView {
   dossier: Omit<Dossier, 'revisions'>;
   siblings: Array<{ id: number; number: number; status: RevisionStatus }>;
 }

@@ -1,59 +1,18 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { DesignDraft, DischargeResult, Requirement } from '../../shared/schema/discharge';
+import type { EvidenceView, Person, RevisionView } from '../../shared/schema/api';
 import type { WaveformAnalysis } from '../../shared/schema/waveform';
-import type { RevisionStatus } from '../../shared/schema/workflow';
 import { notFound } from '../errors';
 
-export interface Person {
-  id: string;
-  name: string;
-  email: string;
-}
+export type { Person } from '../../shared/schema/api';
 
-export interface EvidenceRecord {
-  id: number;
-  revisionId: number;
-  kind: 'waveform' | 'image' | 'datasheet' | 'report' | 'other';
-  originalName: string;
-  mediaType: string;
-  size: number;
-  sha256: string;
+/** The API's evidence view plus where the bytes are stored (server side only). */
+export interface EvidenceRecord extends EvidenceView {
   storageKey: string;
-  analysis: WaveformAnalysis | null;
-  uploadedBy: Person;
-  uploadedAt: string;
 }
 
-export interface DecisionRecord {
-  decision: 'approve' | 'return';
-  comment: string;
-  contentHash: string;
-  reviewer: Person;
-  at: string;
-}
-
-export interface Revision {
-  id: number;
-  dossierId: number;
-  number: number;
-  status: RevisionStatus;
-  design: DesignDraft;
-  notes: string;
-  results: DischargeResult;
-  engineVersion: string;
-  author: Person;
-  createdFrom: number | null;
-  contentHash: string | null;
-  createdAt: string;
-  updatedAt: string;
-  submittedAt: string | null;
-  decidedAt: string | null;
-  evidence: EvidenceRecord[];
-  decision: DecisionRecord | null;
-  comments: Array<{ id: number; author: Person; body: string; at: string }>;
-  signedPdf: { sha256: string; size: number; createdAt: string; signerKind: string } | null;
-}
+export type Revision = RevisionView<EvidenceRecord>;
 
 type Db = Knex | Knex.Transaction;
 
