@@ -1,9 +1,10 @@
 import { useQuery } from '@tanstack/react-query';
-import { useEffect, useMemo, useState } from 'react';
+import { useMemo } from 'react';
 import { computeDischarge } from '../shared/engine';
 import { dischargeInputSchema, type DesignDraft, type DischargeResult, type RequirementDraft } from '../shared/schema/discharge';
 import { ApiError, apiSend, type FieldError } from './api';
 import { keys } from './query-keys';
+import { useSettled } from './use-settled';
 
 /** Pause after the last keystroke before asking the server, so half-typed values are not sent. */
 const SETTLE_MS = 300;
@@ -29,15 +30,6 @@ export interface CalcState {
   error: Error | null;
   /** Field problems the server reported, paths like "design.bleeder.resistance". */
   fieldErrors: FieldError[];
-}
-
-function useSettled<T>(value: T, delayMs: number): T {
-  const [settled, setSettled] = useState(value);
-  useEffect(() => {
-    const timer = setTimeout(() => setSettled(value), delayMs);
-    return () => clearTimeout(timer);
-  }, [value, delayMs]);
-  return settled;
 }
 
 /**

@@ -1,21 +1,12 @@
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
-import { useEffect, useState } from 'react';
 import type { RingingSizing } from '../shared/engine/snubber';
 import type { RingingInputRaw } from '../shared/schema/snubber';
 import { apiSend } from './api';
 import { keys } from './query-keys';
+import { useSettled } from './use-settled';
 
 /** Pause after the last keystroke before asking the server, so half-typed values are not sent. */
 const SETTLE_MS = 400;
-
-function useSettled<T>(value: T, delayMs: number): T {
-  const [settled, setSettled] = useState(value);
-  useEffect(() => {
-    const timer = setTimeout(() => setSettled(value), delayMs);
-    return () => clearTimeout(timer);
-  }, [value, delayMs]);
-  return settled;
-}
 
 /**
  * Parasitics and a suggested RC snubber from a ringing measurement, sized by the server
