@@ -12,6 +12,8 @@ interface NavItem {
   roles?: Role[];
   /** Shown in the phone's bottom bar; the rest live on the Account screen there. */
   bottom: boolean;
+  /** Only where the server runs its local mail server (not in production). */
+  devOnly?: boolean;
 }
 
 const NAV: NavItem[] = [
@@ -21,12 +23,12 @@ const NAV: NavItem[] = [
   { href: '/reviews', label: 'Reviews', short: 'Reviews', glyph: '✓', roles: ['reviewer', 'admin'], bottom: true },
   { href: '/snubber', label: 'Snubber sizing', short: 'Snubber', glyph: '∿', bottom: false },
   { href: '/team', label: 'Team', short: 'Team', glyph: '☰', roles: ['admin'], bottom: false },
-  { href: '/outbox', label: 'Outbox (dev)', short: 'Outbox', glyph: '✉', roles: ['admin'], bottom: false },
+  { href: '/outbox', label: 'Outbox (dev)', short: 'Outbox', glyph: '✉', roles: ['admin'], bottom: false, devOnly: true },
   { href: '/account', label: 'Account', short: 'Account', glyph: '◉', bottom: true },
 ];
 
-export function navFor(role: Role): NavItem[] {
-  return NAV.filter((item) => !item.roles || item.roles.includes(role));
+export function navFor(me: Pick<Me, 'role' | 'outbox'>): NavItem[] {
+  return NAV.filter((item) => (!item.roles || item.roles.includes(me.role)) && (!item.devOnly || me.outbox));
 }
 
 function isActive(pathname: string, href: string): boolean {
@@ -37,7 +39,7 @@ export function AppShell({ me, children }: { me: Me; children: ReactNode }) {
   const { width } = useWindowDimensions();
   const pathname = usePathname();
   const wide = width >= WIDE_BREAKPOINT;
-  const items = navFor(me.role);
+  const items = navFor(me);
 
   if (wide) {
     return (

@@ -9,6 +9,8 @@ export interface Me {
   email: string;
   name: string;
   role: Role;
+  /** Whether the development Outbox exists (never in production). */
+  outbox?: boolean;
 }
 
 /** The signed-in user, or null when nobody is signed in. */

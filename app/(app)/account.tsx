@@ -12,7 +12,7 @@ export default function AccountScreen() {
   const me = useMe().data!;
   const signOut = useSignOut();
   const router = useRouter();
-  const more = navFor(me.role).filter((i) => !i.bottom);
+  const more = navFor(me).filter((i) => !i.bottom);
   return (
     <Screen title="Account" testID="account-screen">
       <Card title={me.name}>

@@ -54,7 +54,7 @@ export function authRoutes(ctx: AppContext): Router {
     const session = await lucia.createSession(user.id, {});
     res.appendHeader('Set-Cookie', lucia.createSessionCookie(session.id).serialize());
     await appendAudit(db, { actorId: user.id, action: 'user.sign_in', subjectType: 'user', subjectId: user.id });
-    res.json({ id: user.id, email: user.email, name: user.name, role: user.role });
+    res.json({ id: user.id, email: user.email, name: user.name, role: user.role, outbox: !ctx.config.production });
   });
 
   router.post('/sign-out', allow(), async (req, res) => {
@@ -69,7 +69,8 @@ export function authRoutes(ctx: AppContext): Router {
 
   // The app's start-up probe: 200 either way, so a signed-out visit is not an error in the browser.
   router.get('/session', (req, res) => {
-    res.json({ user: req.user ?? null });
+    // The local mail server's Outbox exists only outside production; the app hides its link there.
+    res.json({ user: req.user ? { ...req.user, outbox: !ctx.config.production } : null });
   });
 
   router.get('/invite', async (req, res) => {

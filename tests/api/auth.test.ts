@@ -15,6 +15,12 @@ describe('sign-in', () => {
     expect(me.body).toMatchObject({ email: 'reviewer@fennel.test', role: 'reviewer' });
   });
 
+  it('the start-up probe answers 200 either way: no user when signed out, the user (and the dev Outbox flag) when signed in', async () => {
+    expect((await server.anonymous().get('/api/auth/session')).body).toEqual({ user: null });
+    const agent = await server.signIn('admin');
+    expect((await agent.get('/api/auth/session')).body.user).toMatchObject({ email: 'admin@fennel.test', role: 'admin', outbox: true });
+  });
+
   it('when the session cookie is set, then it is HttpOnly and SameSite=Lax', async () => {
     const res = await server.anonymous().post('/api/auth/sign-in').send({ email: 'viewer@fennel.test', password: DEMO_PASSWORD });
     const cookie = String(res.headers['set-cookie']);
