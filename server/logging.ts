@@ -21,6 +21,18 @@ export function createLogger(config: Pick<Config, 'logLevel'>, destination?: Des
 }
 
 /**
+ * The matched route's pattern under its mount point ("/api/revisions/:id/diff"). Express has restored
+ * `baseUrl` by the time an error has been answered, so the mount point is read off the path instead:
+ * the pattern stands for the path's last segments.
+ */
+function routePattern(path: string, pattern: unknown): string {
+  if (typeof pattern !== 'string') return path;
+  const parts = path.split('/');
+  const tail = pattern.split('/').filter(Boolean).length;
+  return `${parts.slice(0, parts.length - tail).join('/')}${pattern === '/' ? '' : pattern}` || '/';
+}
+
+/**
  * One line per API request with its method, route (the pattern, never the query string, which can
  * carry a one-time token), status, time and user id; no headers, no bodies.
  */
@@ -29,7 +41,7 @@ export function requestLog(log: Logger): RequestHandler {
     const started = process.hrtime.bigint();
     req.log = log;
     res.once('finish', () => {
-      const route = req.route ? `${req.baseUrl}${req.route.path}` : req.originalUrl.split('?')[0];
+      const route = routePattern(req.originalUrl.split('?')[0], req.route?.path);
       const ms = Number(process.hrtime.bigint() - started) / 1e6;
       const line = { method: req.method, route, status: res.statusCode, ms: Math.round(ms * 10) / 10, userId: req.user?.id ?? null };
       if (res.statusCode >= 500) log.error(line, 'request');
