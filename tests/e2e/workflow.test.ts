@@ -4,6 +4,7 @@ import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { pdfsig } from '../pdf/poppler';
+import { DEMO_PASSWORD } from '../support/test-server';
 import { openBrowser, PHONE, WIDE, type Browser, type WatchedPage } from './browser';
 
 let browser: Browser;
@@ -130,7 +131,10 @@ describe('dossier review story at phone width', () => {
 
     await openReviewTab(reviewer, second);
     await fill(reviewer.page, 'decision-comment', 'Margin acceptable at the slow corner.');
+    // Approving is a signature: the dialog asks for the reviewer's password.
     await reviewer.page.getByTestId('approve').click();
+    await reviewer.page.getByTestId('approve-password').fill(DEMO_PASSWORD);
+    await reviewer.page.getByTestId('approve-confirm').click();
     await expect.poll(() => reviewer.page.getByTestId('decision').textContent(), { timeout: 20_000 }).toMatch(/Approved by Marta Kowalczyk/);
     await reviewer.shot('workflow-07-approved-phone');
 
