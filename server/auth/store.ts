@@ -71,9 +71,20 @@ export interface BucketRow {
 
 export const findBuckets = (db: Db, keys: string[]) => db<BucketRow>('throttle_bucket').whereIn('key', keys);
 
+/**
+ * Makes sure each key has a row. As the first statement of a transaction it is a write, so SQLite takes
+ * the write lock before anything is read: another process counting the same key waits (busy timeout)
+ * instead of reading a count that is about to change.
+ */
+export const ensureBuckets = (db: Db, keys: string[], now: number) =>
+  db('throttle_bucket').insert(keys.map((key) => ({ key, failures: 0, last_failure_at: now }))).onConflict('key').ignore();
+
 export const saveBucket = (db: Db, row: BucketRow) => db('throttle_bucket').insert(row).onConflict('key').merge();
 
 export const deleteBucket = (db: Db, key: string) => db('throttle_bucket').where({ key }).delete();
+
+/** Gives one counted attempt back to each key (one statement, so nothing can interleave). */
+export const giveBackAttempt = (db: Db, keys: string[]) => db('throttle_bucket').whereIn('key', keys).where('failures', '>', 0).decrement('failures', 1);
 
 export const deleteBucketsOlderThan = (db: Db, before: number) => db('throttle_bucket').where('last_failure_at', '<', before).delete();
 

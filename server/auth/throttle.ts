@@ -4,7 +4,7 @@ import type { Clock } from '../clock';
 import type { Config } from '../config';
 import type { Db } from '../db/knex';
 import { AppError } from '../errors';
-import { deleteBucket, deleteBucketsOlderThan, findBuckets, saveBucket } from './store';
+import { deleteBucket, deleteBucketsOlderThan, ensureBuckets, findBuckets, giveBackAttempt, saveBucket } from './store';
 
 /** `free` attempts, then each further one waits base · 2^(failures − free), at most `maxMs`; forgotten after `forgetMs` of quiet. */
 export interface ThrottleRule {
@@ -56,6 +56,7 @@ export class Throttle {
   reserve(keys: ThrottleKey[]): Promise<ThrottleVerdict> {
     return this.db.transaction(async (trx) => {
       const now = this.clock.now();
+      await ensureBuckets(trx, keys.map((k) => k.key), now);
       const stored = new Map((await findBuckets(trx, keys.map((k) => k.key))).map((b) => [b.key, b]));
       const counted = keys.map(({ key, rule }) => {
         const bucket = stored.get(key);
@@ -74,12 +75,7 @@ export class Throttle {
   async succeeded(keys: ThrottleKey[]): Promise<void> {
     const [account, ...others] = keys;
     await deleteBucket(this.db, account.key);
-    await this.db.transaction(async (trx) => {
-      for (const bucket of await findBuckets(trx, others.map((k) => k.key))) {
-        if (bucket.failures <= 1) await deleteBucket(trx, bucket.key);
-        else await saveBucket(trx, { ...bucket, failures: bucket.failures - 1 });
-      }
-    });
+    await giveBackAttempt(this.db, others.map((k) => k.key));
   }
 
   /** Forgets buckets quiet for longer than any rule remembers; the periodic sweep calls it. */

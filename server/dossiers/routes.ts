@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { dossierCreateSchema, revisionCreateSchema } from '../../shared/schema/workflow';
 import { appendAudit } from '../audit/chain';
 import { allow, currentUser } from '../auth/middleware';
-import { visibleDossiers, visibleRevisions } from '../auth/need-to-know';
+import { seesOnlyApproved, visibleDossiers, visibleRevisions } from '../auth/need-to-know';
 import type { SignedInUser } from '../auth/middleware';
 import type { AppContext } from '../context';
 import { AppError, notFound, validationError } from '../errors';
@@ -86,7 +86,7 @@ async function dossierWithRevisions(ctx: AppContext, user: SignedInUser, id: num
     .orderBy('revision.number', 'desc')
     .select('revision.id', 'revision.number', 'revision.status', 'revision.results', 'revision.created_from', 'revision.created_at', 'revision.updated_at', 'revision.submitted_at', 'revision.decided_at', 'user.name as author_name', 'user.id as author_id');
   // A dossier with nothing this user may see does not exist for them.
-  if (!revisions.length && !(await visibleDossiers(ctx.db, user, ctx.db('dossier').where('dossier.id', id)).first('dossier.id'))) throw notFound('Dossier');
+  if (!revisions.length && seesOnlyApproved(user)) throw notFound('Dossier');
   const signed = await ctx.db('signed_dossier').whereIn('revision_id', revisions.map((r) => r.id)).select('revision_id', 'sha256', 'size', 'created_at');
   const signedBy = new Map(signed.map((s) => [s.revision_id, s]));
   return {

@@ -64,6 +64,13 @@ describe('sign-in throttle per account', () => {
     expect(known.map((k) => k.status)).toEqual([401, 401, 401, 401, 401, 429]);
   });
 
+  it('when twenty wrong guesses arrive at once, then exactly five are judged and the rest wait', async () => {
+    const results = await Promise.all(Array.from({ length: 20 }, (_, i) => attempt(server, spellings('viewer@fennel.test')[i % 6], `parallel-guess-${i}`)));
+    const statuses = results.map((r) => r.status).sort();
+    expect(statuses.filter((s) => s === 401)).toHaveLength(5);
+    expect(statuses.filter((s) => s === 429)).toHaveLength(15);
+  });
+
   it('when the server restarts on the same data, then the account still waits (the count is in the database)', async () => {
     const dataDir = mkdtempSync(join(tmpdir(), 'vf-throttle-'));
     const restartClock = new FakeClock();

@@ -151,7 +151,8 @@ describe('dossier review story at phone width', () => {
 
     expect(engineer.problems).toEqual([]);
     expect(reviewer.problems).toEqual([]);
-  });
+    // The whole story drives two browsers through two reviews and a signature; a loaded machine needs more than the default minute.
+  }, 150_000);
 
   it('the revision page reads well on a wide screen', async () => {
     const p = await browser.page(WIDE);
