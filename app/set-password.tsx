@@ -1,13 +1,15 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { Link, useLocalSearchParams } from 'expo-router';
 import { Controller, useForm } from 'react-hook-form';
-import { ScrollView, StyleSheet, Text, View } from 'react-native';
+import { Text, View } from 'react-native';
 import { z } from 'zod';
 import { passwordSchema } from '../shared/schema/auth';
+import { AuthPanel, authStyles } from '../components/auth-panel';
 import { Button } from '../components/ui/button';
 import { Message } from '../components/ui/message';
 import { TextField } from '../components/ui/text-field';
-import { colors, fonts, radius, space, type } from '../constants/theme';
+import { space, type } from '../constants/theme';
+import { ApiError } from '../hooks/api';
 import { useInvite, useSetPassword } from '../hooks/use-auth';
 
 const formSchema = z
@@ -23,16 +25,18 @@ export default function SetPasswordScreen() {
     defaultValues: { password: '', repeat: '' },
   });
   const submit = handleSubmit(({ password }) => setPassword.mutate({ token, password }));
+  // The server judges how guessable the password is and says why on the field.
+  const serverPasswordError = setPassword.error instanceof ApiError ? setPassword.error.fields.find((f) => f.path === 'password')?.message : undefined;
 
   let body;
-  if (!token) body = <Message tone="error" text="This link is incomplete. Open the link from your invitation e-mail." testID="invite-invalid" />;
+  if (!token) body = <Message tone="error" text="This link is incomplete. Open the link from your e-mail again." testID="invite-invalid" />;
   else if (invite.isPending) body = <Text style={type.body}>Checking your link…</Text>;
   else if (invite.isError) body = <Message tone="error" text={invite.error.message} testID="invite-invalid" />;
   else if (setPassword.isSuccess)
     body = (
       <View style={{ gap: space.md }} testID="password-set">
         <Message text={`Your password is set. Sign in as ${setPassword.data.email}.`} />
-        <Link href="/sign-in" style={styles.link}>
+        <Link href="/sign-in" style={authStyles.link}>
           Go to sign-in
         </Link>
       </View>
@@ -40,14 +44,15 @@ export default function SetPasswordScreen() {
   else
     body = (
       <>
-        <Text style={type.body}>
-          Welcome, {invite.data.name}. Choose a password for {invite.data.email} (at least 12 characters).
+        <Text style={type.body} testID="set-password-intro">
+          {invite.data.kind === 'reset' ? `Choose a new password for ${invite.data.email}` : `Welcome, ${invite.data.name}. Choose a password for ${invite.data.email}`} (at
+          least 12 characters; several unrelated words work well). Setting it signs you out everywhere else.
         </Text>
         <Controller
           control={control}
           name="password"
           render={({ field }) => (
-            <TextField label="New password" testID="set-password-new" secureTextEntry autoComplete="new-password" value={field.value} onChangeText={field.onChange} error={formState.errors.password?.message} />
+            <TextField label="New password" testID="set-password-new" secureTextEntry autoComplete="new-password" value={field.value} onChangeText={field.onChange} error={formState.errors.password?.message ?? serverPasswordError} />
           )}
         />
         <Controller
@@ -57,25 +62,10 @@ export default function SetPasswordScreen() {
             <TextField label="Repeat it" testID="set-password-repeat" secureTextEntry autoComplete="new-password" value={field.value} onChangeText={field.onChange} error={formState.errors.repeat?.message} />
           )}
         />
-        {setPassword.error ? <Message tone="error" text={setPassword.error.message} /> : null}
+        {setPassword.error && !serverPasswordError ? <Message tone="error" text={setPassword.error.message} /> : null}
         <Button label="Set password" testID="set-password-submit" onPress={submit} busy={setPassword.isPending} />
       </>
     );
 
-  return (
-    <ScrollView style={styles.page} contentContainerStyle={styles.center}>
-      <View style={styles.panel} testID="set-password-screen">
-        <Text style={styles.brand}>Voltfall</Text>
-        {body}
-      </View>
-    </ScrollView>
-  );
+  return <AuthPanel testID="set-password-screen">{body}</AuthPanel>;
 }
-
-const styles = StyleSheet.create({
-  page: { flex: 1, backgroundColor: colors.paper },
-  center: { flexGrow: 1, alignItems: 'center', justifyContent: 'center', padding: space.lg },
-  panel: { width: '100%', maxWidth: 420, backgroundColor: colors.surface, borderRadius: radius.lg, borderWidth: 1, borderColor: colors.line, padding: space.xl, gap: space.lg },
-  brand: { fontFamily: fonts.bold, fontSize: 28, color: colors.brand },
-  link: { fontFamily: fonts.semibold, color: colors.info, textDecorationLine: 'underline' },
-});

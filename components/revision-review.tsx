@@ -6,6 +6,7 @@ import { ApiError } from '../hooks/api';
 import type { Revision } from '../hooks/types';
 import type { Me } from '../hooks/use-me';
 import { useAddComment, useDecideRevision, useSubmitRevision } from '../hooks/use-revision';
+import { ApprovalDialog } from './approval-dialog';
 import { formatWhen } from './revision-list';
 import { StatusBadge, VerdictBadge } from './status';
 import { Button } from './ui/button';
@@ -21,16 +22,24 @@ export function RevisionReview({ revision, me }: { revision: Revision; me: Me })
   const [decisionText, setDecisionText] = useState('');
   const [commentText, setCommentText] = useState('');
   const [localError, setLocalError] = useState<string | undefined>();
+  const [signing, setSigning] = useState(false);
   const isAuthor = revision.author.id === me.id;
   const mayDecide = me.role === 'reviewer' && !isAuthor && revision.status === 'in_review';
   const mayComment = me.role === 'reviewer' || isAuthor;
-  const fieldError = localError ?? (decide.error instanceof ApiError ? decide.error.fields.find((f) => f.path === 'comment')?.message : undefined);
+  const fieldOf = (path: string) => (decide.error instanceof ApiError ? decide.error.fields.find((f) => f.path === path)?.message : undefined);
+  const fieldError = localError ?? fieldOf('comment');
+  const passwordError = fieldOf('password');
 
   // The same rule the server applies, checked first so the reviewer sees it at once.
-  function send(decision: 'approve' | 'return') {
-    const parsed = decisionSchema.safeParse({ decision, comment: decisionText });
+  function send(decision: 'approve' | 'return', password?: string) {
+    const parsed = decisionSchema.safeParse({ decision, comment: decisionText, password });
     setLocalError(parsed.success ? undefined : parsed.error.issues.find((i) => i.path[0] === 'comment')?.message);
-    if (parsed.success) decide.mutate(parsed.data);
+    if (parsed.success) decide.mutate(parsed.data, { onSuccess: () => setSigning(false) });
+  }
+
+  function openSigning() {
+    decide.reset();
+    setSigning(true);
   }
 
   return (
@@ -74,7 +83,7 @@ export function RevisionReview({ revision, me }: { revision: Revision; me: Me })
             error={fieldError}
             placeholder="What you checked, or what must change"
           />
-          {decide.error && !fieldError ? <Message tone="error" text={decide.error.message} /> : null}
+          {decide.error && !fieldError && !signing ? <Message tone="error" text={decide.error.message} /> : null}
           {revision.results.verdict !== 'meets' ? (
             <Message
               testID="approve-blocked"
@@ -82,10 +91,22 @@ export function RevisionReview({ revision, me }: { revision: Revision; me: Me })
             />
           ) : null}
           <View style={styles.inline}>
-            <Button label="Approve and sign" testID="approve" busy={decide.isPending} disabled={revision.results.verdict !== 'meets'} onPress={() => send('approve')} />
+            <Button label="Approve and sign…" testID="approve" disabled={revision.results.verdict !== 'meets' || decide.isPending} onPress={openSigning} />
             <Button label="Return for changes" variant="danger" testID="return" busy={decide.isPending} onPress={() => send('return')} />
           </View>
         </Card>
+      ) : null}
+      {mayDecide && signing ? (
+        <ApprovalDialog
+          revision={revision}
+          signerName={me.name}
+          signerRole={me.role}
+          busy={decide.isPending}
+          passwordError={passwordError}
+          error={decide.error && !passwordError ? decide.error.message : undefined}
+          onSign={(password) => send('approve', password)}
+          onCancel={() => setSigning(false)}
+        />
       ) : null}
       {me.role === 'reviewer' && isAuthor && revision.status === 'in_review' ? (
         <Message text="You authored this revision, so another reviewer must decide on it." testID="own-revision" />
@@ -96,6 +117,11 @@ export function RevisionReview({ revision, me }: { revision: Revision; me: Me })
           <Text style={[styles.decision, { color: revision.decision.decision === 'approve' ? colors.pass : colors.fail }]}>
             {revision.decision.decision === 'approve' ? '✓ Approved' : '✕ Returned for changes'} by {revision.decision.reviewer.name}, {formatWhen(revision.decision.at)}
           </Text>
+          {revision.decision.meaning ? (
+            <Text style={type.small} testID="decision-signature">
+              {revision.decision.decision === 'approve' ? 'Signed' : 'Recorded'} by {revision.decision.signerName} ({revision.decision.signerRole}): {revision.decision.meaning}
+            </Text>
+          ) : null}
           {revision.decision.comment ? <Text style={type.body}>“{revision.decision.comment}”</Text> : null}
           <Text style={[type.mono, styles.hash]}>Decided on content hash {revision.decision.contentHash}</Text>
         </Card>

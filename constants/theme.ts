@@ -22,6 +22,8 @@ export const colors = {
   chartMeasured: '#c98a12',
   chartLimit: '#51606b',
   focus: '#2b7bd0',
+  /** Dims the screen behind a dialog. */
+  scrim: 'rgba(20, 33, 43, 0.55)',
 } as const;
 
 export const space = { xs: 4, sm: 8, md: 12, lg: 16, xl: 24, xxl: 32 } as const;

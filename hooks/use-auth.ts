@@ -28,7 +28,7 @@ export function useSignOut() {
 export function useInvite(token: string) {
   return useQuery({
     queryKey: keys.invite(token),
-    queryFn: () => apiGet<{ email: string; name: string }>(`/auth/invite?token=${encodeURIComponent(token)}`),
+    queryFn: () => apiGet<{ email: string; name: string; kind: 'invite' | 'reset' }>(`/auth/invite?token=${encodeURIComponent(token)}`),
     enabled: token.length > 0,
     retry: false,
   });
@@ -37,5 +37,11 @@ export function useInvite(token: string) {
 export function useSetPassword() {
   return useMutation({
     mutationFn: (body: { token: string; password: string }) => apiSend<{ ok: true; email: string }>('POST', '/auth/set-password', body),
+  });
+}
+
+export function useForgotPassword() {
+  return useMutation({
+    mutationFn: (body: { email: string }) => apiSend<{ ok: true; message: string }>('POST', '/auth/forgot-password', body),
   });
 }

@@ -10,6 +10,8 @@ export interface TeamMember {
   role: Role;
   disabled: boolean;
   invitePending: boolean;
+  /** The latest invitation of someone who has not chosen a password yet. */
+  invite: { status: 'open' | 'expired' | 'revoked' | 'used'; expiresAt: string } | null;
   createdAt: string;
 }
 
@@ -29,6 +31,24 @@ export function useUpdateUser() {
   const client = useQueryClient();
   return useMutation({
     mutationFn: ({ id, ...body }: { id: string; role?: Role; disabled?: boolean }) => apiSend<TeamMember>('PATCH', `/users/${id}`, body),
+    onSuccess: () => client.invalidateQueries({ queryKey: keys.users }),
+  });
+}
+
+/** A fresh one-time invitation link (the earlier one stops working). */
+export function useResendInvite() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) => apiSend<TeamMember>('POST', `/users/${id}/invite`),
+    onSuccess: () => client.invalidateQueries({ queryKey: keys.users }),
+  });
+}
+
+/** Withdraws a pending invitation: its link stops working. */
+export function useRevokeInvite() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) => apiSend<TeamMember>('DELETE', `/users/${id}/invite`),
     onSuccess: () => client.invalidateQueries({ queryKey: keys.users }),
   });
 }

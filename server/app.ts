@@ -2,11 +2,11 @@ import { existsSync } from 'node:fs';
 import { extname, join } from 'node:path';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
-import { pinoHttp } from 'pino-http';
 import { authRoutes } from './auth/routes';
 import { originCheck, sessionMiddleware } from './auth/middleware';
 import type { AppContext } from './context';
 import { AppError, errorMiddleware } from './errors';
+import { requestLog } from './logging';
 import { outboxRoutes } from './outbox/routes';
 import { userRoutes } from './users/routes';
 import { apiRoutes } from './routes';
@@ -15,7 +15,8 @@ import { apiRoutes } from './routes';
 export function createApp(ctx: AppContext): Express {
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  // Forwarded addresses and schemes are believed only from the proxies TRUST_PROXY names.
+  app.set('trust proxy', ctx.config.trustProxy);
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -35,12 +36,12 @@ export function createApp(ctx: AppContext): Express {
       hsts: ctx.config.production,
     }),
   );
-  app.use(pinoHttp({ logger: ctx.log, autoLogging: { ignore: (req) => !req.url?.startsWith('/api') } }));
 
   const api = express.Router();
+  api.use(requestLog(ctx.log));
   api.use(express.json({ limit: '2mb' }));
-  api.use(originCheck);
-  api.use(sessionMiddleware(ctx.lucia));
+  api.use(originCheck(ctx.config.publicUrl));
+  api.use(sessionMiddleware(ctx.sessions));
   api.get('/health', (_req, res) => {
     res.json({ ok: true });
   });

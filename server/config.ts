@@ -21,6 +21,12 @@ const envSchema = z.object({
   SIGNING_P12_PATH: z.string().optional(),
   SIGNING_P12_PASSWORD: z.string().optional(),
   SIGN_IN_LIMIT_PER_15_MIN: z.coerce.number().int().positive().default(20),
+  SIGN_IN_FREE_FAILURES_PER_ACCOUNT: z.coerce.number().int().positive().default(5),
+  TRUST_PROXY: z.string().trim().default(''),
+  SESSION_ABSOLUTE_HOURS: z.coerce.number().positive().max(12, 'at most 12 hours (ASVS 3.3)').default(12),
+  SESSION_IDLE_MINUTES: z.coerce.number().positive().max(720).default(30),
+  SESSIONS_PER_USER: z.coerce.number().int().positive().max(100).default(5),
+  SESSION_SWEEP_MINUTES: z.coerce.number().positive().default(10),
   UPLOAD_LIMIT_WAVEFORM_MB: z.coerce.number().positive().default(512),
   UPLOAD_LIMIT_OTHER_MB: z.coerce.number().positive().default(25),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
@@ -37,9 +43,27 @@ export interface Config {
   seedDemo: boolean;
   smtp: { url: string | null; from: string; fakePort: number };
   signing: { p12Path: string | null; p12Password: string | null };
+  /** Failed sign-ins (or signatures) one client address may make in 15 minutes before it waits. */
   signInLimitPer15Min: number;
+  /** Failures one account may have before each further attempt waits a growing delay. */
+  signInFreeFailuresPerAccount: number;
+  /** Express's `trust proxy`: false unless TRUST_PROXY names the proxies (hop count, addresses or subnets). */
+  trustProxy: false | number | string;
+  sessions: { absoluteMs: number; idleMs: number; perUser: number; sweepMs: number };
   uploadLimits: { waveformBytes: number; otherBytes: number };
   logLevel: z.infer<typeof envSchema>['LOG_LEVEL'];
+}
+
+/**
+ * TRUST_PROXY as Express takes it. Empty means the socket's address is the client, so a forged
+ * X-Forwarded-For changes nothing. "true" is refused: it would believe the left-most forwarded
+ * address, which any client writes.
+ */
+function parseTrustProxy(value: string): false | number | string {
+  if (value === '' || value === 'false') return false;
+  if (value === 'true') throw new Error('Invalid configuration: TRUST_PROXY: name the proxy hop count or its addresses, not "true"');
+  if (/^\d+$/.test(value)) return Number(value);
+  return value;
 }
 
 /** Reads and validates the environment once; refuses to start a production server without real mail and signing. */
@@ -63,6 +87,14 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     smtp: { url: e.SMTP_URL ?? null, from: e.SMTP_FROM, fakePort: e.FAKE_SMTP_PORT },
     signing: { p12Path: e.SIGNING_P12_PATH ?? null, p12Password: e.SIGNING_P12_PASSWORD ?? null },
     signInLimitPer15Min: e.SIGN_IN_LIMIT_PER_15_MIN,
+    signInFreeFailuresPerAccount: e.SIGN_IN_FREE_FAILURES_PER_ACCOUNT,
+    trustProxy: parseTrustProxy(e.TRUST_PROXY),
+    sessions: {
+      absoluteMs: e.SESSION_ABSOLUTE_HOURS * 3600_000,
+      idleMs: e.SESSION_IDLE_MINUTES * 60_000,
+      perUser: e.SESSIONS_PER_USER,
+      sweepMs: e.SESSION_SWEEP_MINUTES * 60_000,
+    },
     uploadLimits: {
       waveformBytes: Math.round(e.UPLOAD_LIMIT_WAVEFORM_MB * 1024 * 1024),
       otherBytes: Math.round(e.UPLOAD_LIMIT_OTHER_MB * 1024 * 1024),

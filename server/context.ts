@@ -1,5 +1,8 @@
 import type { Logger } from 'pino';
-import type { AuthLucia } from './auth/lucia';
+import type { Sessions } from './auth/sessions';
+import type { Throttle } from './auth/throttle';
+import type { Background } from './background';
+import type { Clock } from './clock';
 import type { Config } from './config';
 import type { Db } from './db/knex';
 
@@ -7,8 +10,12 @@ import type { Db } from './db/knex';
 export interface AppContext {
   config: Config;
   db: Db;
-  lucia: AuthLucia;
+  clock: Clock;
+  sessions: Sessions;
+  throttle: Throttle;
   log: Logger;
+  /** Work that runs after an answer was sent. */
+  background: Background;
   /** Asks the mail sender to deliver what is queued now (a no-op when mail is not configured). */
   kickMail: () => void;
   /** Absolute base URL for links in e-mails. */

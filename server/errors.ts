@@ -14,6 +14,8 @@ export class AppError extends Error {
     readonly code: string,
     message: string,
     readonly fields?: FieldError[],
+    /** Response headers that belong to the answer, such as Retry-After on a 429. */
+    readonly headers?: Record<string, string>,
   ) {
     super(message);
   }
@@ -48,6 +50,7 @@ export const errorMiddleware: ErrorRequestHandler = (err, req, res, _next) => {
     err = new AppError(err.status, code, message);
   }
   if (err instanceof AppError) {
+    if (err.headers) res.set(err.headers);
     res.status(err.status).json({ error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } });
     return;
   }

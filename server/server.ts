@@ -1,13 +1,17 @@
 import { mkdirSync } from 'node:fs';
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
-import { pino } from 'pino';
+import type { DestinationStream } from 'pino';
 import { createApp } from './app';
-import { createLucia } from './auth/lucia';
+import { Sessions } from './auth/sessions';
+import { Throttle } from './auth/throttle';
+import { Background } from './background';
+import { systemClock, type Clock } from './clock';
 import type { Config } from './config';
 import type { AppContext } from './context';
 import { openDatabase } from './db/knex';
 import { seedDemo } from './db/seed';
+import { createLogger } from './logging';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { MailSender } from './mail/mailer';
 
@@ -20,9 +24,17 @@ export interface RunningServer {
   close(): Promise<void>;
 }
 
-/** Opens the data folder, migrates, seeds the demo outside production, starts mail and listens. */
-export async function startServer(config: Config): Promise<RunningServer> {
-  const log = pino({ level: config.logLevel });
+export interface StartOptions {
+  /** The time source for sessions, links and throttles (tests pass a fake one). */
+  clock?: Clock;
+  /** Where log lines go (standard output unless given). */
+  logDestination?: DestinationStream;
+}
+
+/** Opens the data folder, migrates, seeds the demo outside production, starts mail and sweeps, and listens. */
+export async function startServer(config: Config, options: StartOptions = {}): Promise<RunningServer> {
+  const log = createLogger(config, options.logDestination);
+  const clock = options.clock ?? systemClock;
   mkdirSync(config.dataDir, { recursive: true });
   const db = await openDatabase(config.dataDir);
   if (config.seedDemo) await seedDemo(db, log);
@@ -35,11 +47,15 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const ctx: AppContext = {
     config,
     db,
-    lucia: createLucia(db, config.production),
+    clock,
+    sessions: new Sessions(db, clock, config.sessions, config.production),
+    throttle: new Throttle(db, clock, config),
     log,
+    background: new Background(log),
     kickMail: () => void mail.flush(),
     baseUrl: config.publicUrl ?? `http://localhost:${config.port}`,
   };
+  const sweep = setInterval(() => ctx.background.run('sweep expired sessions and throttles', () => sweepExpired(ctx)), config.sessions.sweepMs);
   const app = createApp(ctx);
   const server = await new Promise<Server>((resolve) => {
     const s = app.listen(config.port, config.host, () => resolve(s));
@@ -54,11 +70,20 @@ export async function startServer(config: Config): Promise<RunningServer> {
     fakeSmtp,
     mail,
     async close() {
+      clearInterval(sweep);
       await new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeAllConnections();
+      await ctx.background.settled();
       await mail.stop();
       await fakeSmtp?.close();
       await db.destroy();
     },
   };
+}
+
+/** The periodic sweep: expired sessions and long-quiet throttle buckets are deleted. */
+export async function sweepExpired(ctx: AppContext): Promise<void> {
+  const sessions = await ctx.sessions.sweep();
+  const buckets = await ctx.throttle.sweep();
+  if (sessions || buckets) ctx.log.info({ sessions, buckets }, 'swept expired sessions and throttle buckets');
 }

@@ -2,6 +2,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { Controller, useForm } from 'react-hook-form';
 import { StyleSheet, Text, View } from 'react-native';
 import { inviteUserSchema, ROLE_NAMES, type InviteUserInput } from '../../shared/schema/auth';
+import { InviteControls } from '../../components/invite-controls';
 import { Badge } from '../../components/ui/badge';
 import { Button } from '../../components/ui/button';
 import { Card } from '../../components/ui/card';
@@ -28,7 +29,7 @@ export default function TeamScreen() {
   const submit = handleSubmit((values) => invite.mutate(values, { onSuccess: () => reset() }));
 
   return (
-    <Screen title="Team" subtitle="Invite people, set their role, disable accounts." testID="team-screen">
+    <Screen title="Team" subtitle="Invite people, resend or revoke invitations, set roles, disable accounts." testID="team-screen">
       <Card title="Invite someone">
         <View style={styles.row}>
           <Controller control={control} name="name" render={({ field }) => (
@@ -51,9 +52,10 @@ export default function TeamScreen() {
           <View key={user.id} style={styles.person} testID={`team-row-${user.email}`}>
             <View style={styles.personHead}>
               <Text style={type.heading}>{user.name}</Text>
-              {user.disabled ? <Badge label="Disabled" tone="fail" /> : user.invitePending ? <Badge label="Invitation pending" tone="pending" /> : <Badge label="Active" tone="pass" />}
+              {user.disabled ? <Badge label="Disabled" tone="fail" /> : user.invitePending ? <Badge label="No password yet" tone="pending" /> : <Badge label="Active" tone="pass" />}
             </View>
             <Text style={type.small}>{user.email}</Text>
+            {user.invitePending && !user.disabled ? <InviteControls member={user} /> : null}
             <Choice
               label="Role"
               testID={`role-${user.email}`}

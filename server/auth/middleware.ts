@@ -1,14 +1,9 @@
 import type { NextFunction, Request, RequestHandler, Response } from 'express';
-import { verifyRequestOrigin } from 'oslo/request';
 import { AppError } from '../errors';
-import type { AuthLucia, Role } from './lucia';
+import type { Role } from './roles';
+import type { Sessions, SessionUser } from './sessions';
 
-export interface SignedInUser {
-  id: string;
-  email: string;
-  name: string;
-  role: Role;
-}
+export type SignedInUser = SessionUser;
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace -- Express augments its Request this way.
@@ -22,32 +17,37 @@ declare global {
 
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
-/** Refuses state-changing requests whose Origin is not this host (cookie sessions need it against CSRF). */
-export const originCheck: RequestHandler = (req, _res, next) => {
-  if (SAFE_METHODS.has(req.method)) return next();
-  const origin = req.headers.origin;
-  const host = req.headers.host;
-  if (!origin || !host || !verifyRequestOrigin(origin, [host])) {
-    return next(new AppError(403, 'origin_rejected', 'This request did not come from a Voltfall page.'));
-  }
-  next();
-};
+/**
+ * Refuses state-changing requests whose Origin is not this site, scheme included (cookie sessions need
+ * it against CSRF; https://host and http://host are different sites). This site is the configured
+ * public URL, or the scheme and host the request arrived with (the scheme as a trusted proxy reports it).
+ */
+export function originCheck(publicUrl: string | null): RequestHandler {
+  const configured = publicUrl ? new URL(publicUrl).origin : null;
+  return (req, _res, next) => {
+    if (SAFE_METHODS.has(req.method)) return next();
+    const origin = req.headers.origin?.toLowerCase();
+    const own = req.host ? `${req.protocol}://${req.host}`.toLowerCase() : null;
+    if (!origin || (origin !== own && origin !== configured)) {
+      return next(new AppError(403, 'origin_rejected', 'This request did not come from a Voltfall page.'));
+    }
+    next();
+  };
+}
 
-/** Reads the session cookie; sets req.user for active users and refreshes the cookie when lucia asks. */
-export function sessionMiddleware(lucia: AuthLucia): RequestHandler {
+/** Reads the session cookie; sets req.user while the session lives, and clears a cookie that no longer works. */
+export function sessionMiddleware(sessions: Sessions): RequestHandler {
   return async (req, res, next) => {
     try {
-      const sessionId = lucia.readSessionCookie(req.headers.cookie ?? '');
-      if (!sessionId) return next();
-      const { session, user } = await lucia.validateSession(sessionId);
-      if (!session || !user || user.disabled) {
-        if (session) await lucia.invalidateSession(session.id);
-        res.appendHeader('Set-Cookie', lucia.createBlankSessionCookie().serialize());
+      const token = sessions.readToken(req.headers.cookie);
+      if (!token) return next();
+      const valid = await sessions.validate(token);
+      if (!valid) {
+        res.appendHeader('Set-Cookie', sessions.blankCookie());
         return next();
       }
-      if (session.fresh) res.appendHeader('Set-Cookie', lucia.createSessionCookie(session.id).serialize());
-      req.user = { id: user.id, email: user.email, name: user.name, role: user.role };
-      req.sessionId = session.id;
+      req.user = valid.user;
+      req.sessionId = valid.sessionId;
       next();
     } catch (err) {
       next(err);

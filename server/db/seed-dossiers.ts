@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import { computeDischarge } from '../../shared/engine';
 import type { DesignDraft, Requirement } from '../../shared/schema/discharge';
 import { appendAudit } from '../audit/chain';
+import { decisionMeaning } from '../review/domain';
 import { revisionContentHash } from '../revisions/store';
 
 // The invented Fennel Grid Labs scenario: two products, dossiers in each state of the workflow.
@@ -92,7 +93,18 @@ async function seedDossier(
     if (r.decision) {
       const status = r.decision.decision === 'approve' ? 'approved' : 'returned';
       await trx('revision').where({ id: row.id }).update({ status, decided_at: now });
-      await trx('review_decision').insert({ revision_id: row.id, reviewer_id: r.decision.reviewer, decision: r.decision.decision, comment: r.decision.comment, content_hash: contentHash, created_at: now });
+      const reviewer = await trx('user').where({ id: r.decision.reviewer }).first('name', 'role');
+      await trx('review_decision').insert({
+        revision_id: row.id,
+        reviewer_id: r.decision.reviewer,
+        decision: r.decision.decision,
+        comment: r.decision.comment,
+        content_hash: contentHash,
+        created_at: now,
+        signer_name: reviewer.name,
+        signer_role: reviewer.role,
+        meaning: decisionMeaning(r.decision.decision, reviewer.role),
+      });
       await appendAudit(trx, { actorId: r.decision.reviewer, action: `revision.${status}`, subjectType: 'revision', subjectId: row.id, dossierId: dossier.id, payload: { comment: r.decision.comment, contentHash } });
     }
     previous = row.id;

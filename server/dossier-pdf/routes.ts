@@ -1,5 +1,6 @@
 import { Router } from 'express';
-import { allow } from '../auth/middleware';
+import { allow, currentUser } from '../auth/middleware';
+import { assertMaySee } from '../auth/need-to-know';
 import type { AppContext } from '../context';
 import { notFound } from '../errors';
 import { parseId } from '../params';
@@ -11,6 +12,7 @@ export function dossierPdfRoutes(ctx: AppContext, service: DossierPdfService): R
     const id = parseId(req.params.id);
     const rev = await ctx.db('revision').join('dossier', 'dossier.id', 'revision.dossier_id').where('revision.id', id).first('revision.status', 'revision.number', 'dossier.id as dossier_id');
     if (!rev) throw notFound('Revision');
+    assertMaySee(currentUser(req), rev.status);
     const name = `voltfall-dossier-${rev.dossier_id}-rev${rev.number}${rev.status === 'approved' ? '-signed' : '-not-approved'}.pdf`;
     res.setHeader('Content-Type', 'application/pdf');
     res.attachment(name);

@@ -2,6 +2,8 @@ import { Router } from 'express';
 import { dossierCreateSchema, revisionCreateSchema } from '../../shared/schema/workflow';
 import { appendAudit } from '../audit/chain';
 import { allow, currentUser } from '../auth/middleware';
+import { seesOnlyApproved, visibleDossiers, visibleRevisions } from '../auth/need-to-know';
+import type { SignedInUser } from '../auth/middleware';
 import type { AppContext } from '../context';
 import { AppError, notFound, validationError } from '../errors';
 import { parseId } from '../params';
@@ -12,12 +14,14 @@ export function dossierRoutes(ctx: AppContext): Router {
   const router = Router();
   const { db } = ctx;
 
-  router.get('/', allow(), async (_req, res) => {
-    const rows = await db('dossier')
+  router.get('/', allow(), async (req, res) => {
+    const user = currentUser(req);
+    const rows = await visibleDossiers(db, user, db('dossier')
       .join('product', 'product.id', 'dossier.product_id')
       .select('dossier.*', 'product.name as product_name', 'product.model_number as product_model')
-      .orderBy('dossier.id', 'desc');
-    const revisions = await db('revision').select('id', 'dossier_id', 'number', 'status', 'updated_at', 'results', 'author_id');
+      .orderBy('dossier.id', 'desc'));
+    // A viewer's "latest" is the latest approved revision.
+    const revisions = await visibleRevisions(user, db('revision').select('id', 'dossier_id', 'number', 'status', 'updated_at', 'results', 'author_id'), 'status');
     const latest = new Map<number, (typeof revisions)[number]>();
     for (const r of revisions) {
       const cur = latest.get(r.dossier_id);
@@ -55,11 +59,11 @@ export function dossierRoutes(ctx: AppContext): Router {
     });
     // Revision 1 starts as an empty draft so the author can go straight to the design.
     await createDraft(ctx, user, id);
-    res.status(201).json(await dossierWithRevisions(ctx, id));
+    res.status(201).json(await dossierWithRevisions(ctx, user, id));
   });
 
   router.get('/:id', allow(), async (req, res) => {
-    res.json(await dossierWithRevisions(ctx, parseId(req.params.id)));
+    res.json(await dossierWithRevisions(ctx, currentUser(req), parseId(req.params.id)));
   });
 
   router.post('/:id/revisions', allow('engineer', 'admin'), async (req, res) => {
@@ -74,13 +78,15 @@ export function dossierRoutes(ctx: AppContext): Router {
   return router;
 }
 
-async function dossierWithRevisions(ctx: AppContext, id: number) {
+async function dossierWithRevisions(ctx: AppContext, user: SignedInUser, id: number) {
   const dossier = await loadDossier(ctx.db, id);
-  const revisions = await ctx.db('revision')
+  const revisions = await visibleRevisions(user, ctx.db('revision'))
     .join('user', 'user.id', 'revision.author_id')
     .where({ 'revision.dossier_id': id })
     .orderBy('revision.number', 'desc')
     .select('revision.id', 'revision.number', 'revision.status', 'revision.results', 'revision.created_from', 'revision.created_at', 'revision.updated_at', 'revision.submitted_at', 'revision.decided_at', 'user.name as author_name', 'user.id as author_id');
+  // A dossier with nothing this user may see does not exist for them.
+  if (!revisions.length && seesOnlyApproved(user)) throw notFound('Dossier');
   const signed = await ctx.db('signed_dossier').whereIn('revision_id', revisions.map((r) => r.id)).select('revision_id', 'sha256', 'size', 'created_at');
   const signedBy = new Map(signed.map((s) => [s.revision_id, s]));
   return {

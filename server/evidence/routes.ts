@@ -1,6 +1,7 @@
 import { Router, type NextFunction, type Request, type Response } from 'express';
 import multer from 'multer';
 import { allow, currentUser } from '../auth/middleware';
+import { assertMaySee } from '../auth/need-to-know';
 import type { AppContext } from '../context';
 import { AppError, notFound } from '../errors';
 import { parseId } from '../params';
@@ -41,8 +42,9 @@ export function evidenceRoutes(ctx: AppContext): Router {
   });
 
   router.get('/evidence/:id/file', allow(), async (req, res) => {
-    const row = await ctx.db('evidence').where({ id: parseId(req.params.id) }).first();
+    const row = await ctx.db('evidence').join('revision', 'revision.id', 'evidence.revision_id').where('evidence.id', parseId(req.params.id)).first('evidence.*', 'revision.status as revision_status');
     if (!row) throw notFound('Evidence');
+    assertMaySee(currentUser(req), row.revision_status, 'Evidence');
     res.setHeader('Content-Type', row.media_type);
     res.setHeader('X-Content-Type-Options', 'nosniff');
     res.attachment(row.original_name);

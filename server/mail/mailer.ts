@@ -62,7 +62,8 @@ export class MailSender {
     for (const mail of due) {
       try {
         await this.transport.sendMail({ from: this.from, to: mail.to, subject: mail.subject, text: mail.text, html: mail.html });
-        await this.db('mail_queue').where({ id: mail.id }).update({ status: 'sent', sent_at: new Date().toISOString(), attempts: mail.attempts + 1 });
+        // A delivered message keeps its envelope, not its body: bodies carry one-time links.
+        await this.db('mail_queue').where({ id: mail.id }).update({ status: 'sent', sent_at: new Date().toISOString(), attempts: mail.attempts + 1, text: '', html: '' });
       } catch (err) {
         const attempts = mail.attempts + 1;
         const delayMs = Math.min(2 ** attempts * 1_000, 15 * 60_000);

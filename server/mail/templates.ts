@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import Handlebars from 'handlebars';
 
-export type TemplateName = 'invite' | 'review-requested' | 'review-decided';
+export type TemplateName = 'invite' | 'password-reset' | 'review-requested' | 'review-decided';
 
 const TEMPLATE_DIR = join(import.meta.dirname, '..', '..', 'templates');
 const cache = new Map<string, HandlebarsTemplateDelegate>();

@@ -1,5 +1,6 @@
 import { Router } from 'express';
 import { allow, currentUser } from '../auth/middleware';
+import { visibleRevisions } from '../auth/need-to-know';
 import type { AppContext } from '../context';
 
 /** The Overview screen's lists: my drafts, returned to me, awaiting my review, recently approved. */
@@ -8,7 +9,7 @@ export function overviewRoutes(ctx: AppContext): Router {
   router.get('/', allow(), async (req, res) => {
     const user = currentUser(req);
     const base = () =>
-      ctx.db('revision')
+      visibleRevisions(user, ctx.db('revision'))
         .join('dossier', 'dossier.id', 'revision.dossier_id')
         .join('product', 'product.id', 'dossier.product_id')
         .join('user', 'user.id', 'revision.author_id')

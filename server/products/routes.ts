@@ -2,6 +2,7 @@ import { Router } from 'express';
 import { productCreateSchema } from '../../shared/schema/workflow';
 import { appendAudit } from '../audit/chain';
 import { allow, currentUser } from '../auth/middleware';
+import { visibleDossiers } from '../auth/need-to-know';
 import type { AppContext } from '../context';
 import { notFound, validationError } from '../errors';
 import { parseId } from '../params';
@@ -12,9 +13,9 @@ export function productRoutes(ctx: AppContext): Router {
   const router = Router();
   const { db } = ctx;
 
-  router.get('/', allow(), async (_req, res) => {
+  router.get('/', allow(), async (req, res) => {
     const rows = await db('product').orderBy('name');
-    const counts: Array<{ product_id: number; n: number }> = await db('dossier').groupBy('product_id').select('product_id').count({ n: '*' });
+    const counts: Array<{ product_id: number; n: number }> = await visibleDossiers(db, currentUser(req), db('dossier').groupBy('product_id').select('product_id').count({ n: '*' }));
     const byProduct = new Map(counts.map((c) => [c.product_id, Number(c.n)]));
     res.json(rows.map((r) => ({ ...toProduct(r), dossierCount: byProduct.get(r.id) ?? 0 })));
   });
@@ -36,7 +37,7 @@ export function productRoutes(ctx: AppContext): Router {
   router.get('/:id', allow(), async (req, res) => {
     const row = await db('product').where({ id: parseId(req.params.id) }).first();
     if (!row) throw notFound('Product');
-    const dossiers = await db('dossier').where({ product_id: row.id }).orderBy('id').select('id', 'title');
+    const dossiers = await visibleDossiers(db, currentUser(req), db('dossier').where({ product_id: row.id }).orderBy('id').select('id', 'title'));
     res.json({ ...toProduct(row), dossiers });
   });
 

@@ -7,16 +7,21 @@ import { conflict, forbidden } from '../errors';
 import { queueMail } from '../mail/mailer';
 import { loadDossier, loadRevision, type Revision } from '../revisions/store';
 
+/** What a decision means, as recorded with it and printed on the dossier: "approved as reviewer". */
+export const decisionMeaning = (decision: Decision['decision'], role: string) => `${decision === 'approve' ? 'approved' : 'returned for changes'} as ${role}`;
+
 /**
  * decideRevision: assert reviewer and not the author, move in_review → approved | returned with an
  * optimistic status check (exactly one concurrent decision wins), record the decision with the content
- * hash the reviewer saw, audit, e-mail the author. `afterApprove` runs inside the same transaction.
+ * hash the reviewer saw and the signer's name, role and the meaning of the signature, audit, e-mail
+ * the author. The route has re-authenticated an approving reviewer; `afterApprove` runs inside the
+ * same transaction.
  */
 export async function decideRevision(
   ctx: AppContext,
   user: SignedInUser,
   revisionId: number,
-  decision: Decision,
+  decision: Omit<Decision, 'password'>,
   afterApprove?: (trx: Knex.Transaction, rev: Revision) => Promise<void>,
 ): Promise<Revision> {
   await ctx.db.transaction(async (trx) => {
@@ -36,6 +41,7 @@ export async function decideRevision(
     const now = new Date().toISOString();
     const changed = await trx('revision').where({ id: revisionId, status: 'in_review' }).update({ status, decided_at: now, updated_at: now });
     if (!changed) throw conflict('Another reviewer decided on this revision a moment ago.');
+    const meaning = decisionMeaning(decision.decision, user.role);
     await trx('review_decision').insert({
       revision_id: revisionId,
       reviewer_id: user.id,
@@ -43,6 +49,9 @@ export async function decideRevision(
       comment: decision.comment,
       content_hash: rev.contentHash,
       created_at: now,
+      signer_name: user.name,
+      signer_role: user.role,
+      meaning,
     });
     await appendAudit(trx, {
       actorId: user.id,
@@ -50,7 +59,7 @@ export async function decideRevision(
       subjectType: 'revision',
       subjectId: revisionId,
       dossierId: rev.dossierId,
-      payload: { number: rev.number, comment: decision.comment, contentHash: rev.contentHash },
+      payload: { number: rev.number, comment: decision.comment, contentHash: rev.contentHash, signerName: user.name, signerRole: user.role, meaning },
     });
     const dossier = await loadDossier(trx, rev.dossierId);
     await queueMail(trx, rev.author.email, 'review-decided', {

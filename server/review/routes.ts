@@ -1,7 +1,9 @@
 import { Router } from 'express';
 import type { Knex } from 'knex';
 import { decisionSchema, reviewCommentSchema } from '../../shared/schema/workflow';
+import { confirmSignature } from '../auth/domain';
 import { allow, currentUser } from '../auth/middleware';
+import { clientAddress } from '../auth/throttle';
 import type { AppContext } from '../context';
 import { validationError } from '../errors';
 import { parseId } from '../params';
@@ -14,7 +16,10 @@ export function reviewRoutes(ctx: AppContext, afterApprove?: (trx: Knex.Transact
   router.post('/revisions/:id/decision', allow('reviewer'), async (req, res) => {
     const parsed = decisionSchema.safeParse(req.body);
     if (!parsed.success) throw validationError(parsed.error);
-    res.json(await decideRevision(ctx, currentUser(req), parseId(req.params.id), parsed.data, afterApprove));
+    const { password, ...decision } = parsed.data;
+    const user = currentUser(req);
+    if (decision.decision === 'approve') await confirmSignature(ctx, user, password, clientAddress(req));
+    res.json(await decideRevision(ctx, user, parseId(req.params.id), decision, afterApprove));
   });
 
   router.post('/revisions/:id/comments', allow('reviewer', 'engineer', 'admin'), async (req, res) => {

@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import { revisionPatchSchema } from '../../shared/schema/workflow';
 import { allow, currentUser } from '../auth/middleware';
+import { assertMaySee, maySee, visibleRevisions } from '../auth/need-to-know';
 import type { AppContext } from '../context';
 import { AppError, validationError } from '../errors';
 import { parseId } from '../params';
@@ -13,9 +14,11 @@ export function revisionRoutes(ctx: AppContext): Router {
   const { db } = ctx;
 
   router.get('/:id', allow(), async (req, res) => {
+    const user = currentUser(req);
     const rev = await loadRevision(db, parseId(req.params.id));
+    assertMaySee(user, rev.status);
     const dossier = await loadDossier(db, rev.dossierId);
-    const siblings = await db('revision').where({ dossier_id: rev.dossierId }).orderBy('number').select('id', 'number', 'status');
+    const siblings = await visibleRevisions(user, db('revision').where({ dossier_id: rev.dossierId }).orderBy('number').select('id', 'number', 'status'), 'status');
     res.json({ ...rev, dossier, siblings });
   });
 
@@ -30,14 +33,18 @@ export function revisionRoutes(ctx: AppContext): Router {
   });
 
   router.get('/:id/diff', allow(), async (req, res) => {
+    const user = currentUser(req);
     const current = await loadRevision(db, parseId(req.params.id));
+    assertMaySee(user, current.status);
     let againstId: number | null = req.query.against === undefined ? current.createdFrom : parseId(req.query.against, 'against');
+    if (req.query.against === undefined && againstId !== null && !maySee(user, (await loadRevision(db, againstId)).status)) againstId = null;
     if (againstId === null) {
-      const previous = await db('revision').where({ dossier_id: current.dossierId }).where('number', '<', current.number).orderBy('number', 'desc').first('id');
+      const previous = await visibleRevisions(user, db('revision').where({ dossier_id: current.dossierId }).where('number', '<', current.number).orderBy('number', 'desc'), 'status').first('id');
       againstId = previous?.id ?? null;
     }
     if (againstId === null) throw new AppError(404, 'not_found', 'This is the first revision; there is nothing to compare it with.');
     const previous = await loadRevision(db, againstId);
+    assertMaySee(user, previous.status);
     if (previous.dossierId !== current.dossierId) {
       throw new AppError(400, 'invalid_input', 'Compare revisions of the same dossier only.', [{ path: 'against', message: 'another dossier' }]);
     }

@@ -72,6 +72,9 @@ export async function loadRevision(db: Db, id: number): Promise<Revision> {
           contentHash: decisionRow.content_hash,
           reviewer: who.get(decisionRow.reviewer_id) ?? unknownPerson(decisionRow.reviewer_id),
           at: decisionRow.created_at,
+          signerName: decisionRow.signer_name,
+          signerRole: decisionRow.signer_role,
+          meaning: decisionRow.meaning,
         }
       : null,
     comments: commentRows.map((c) => ({ id: c.id, author: who.get(c.author_id) ?? unknownPerson(c.author_id), body: c.body, at: c.created_at })),

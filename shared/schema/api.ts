@@ -31,6 +31,10 @@ export interface DecisionView {
   contentHash: string;
   reviewer: Person;
   at: string;
+  /** The signature's record: who signed, in which role, and what it means ("approved as reviewer"); null on decisions recorded before signatures. */
+  signerName: string | null;
+  signerRole: string | null;
+  meaning: string | null;
 }
 
 export interface RevisionView<E extends EvidenceView = EvidenceView> {

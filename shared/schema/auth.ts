@@ -7,9 +7,21 @@ export const signInSchema = z.object({
   password: z.string().min(1, 'Enter your password.').max(200),
 });
 
-export const passwordSchema = z.string().min(12, 'Use at least 12 characters.').max(200, 'Use at most 200 characters.');
+export const MIN_PASSWORD_LENGTH = 12;
+export const MAX_PASSWORD_LENGTH = 128;
+
+/** Characters that count towards the minimum: ends trimmed, runs of spaces counted once (ASVS 2.1.1). */
+export const passwordLength = (password: string) => [...password.trim().replace(/\s+/g, ' ')].length;
+
+// The shape only; the server also judges how guessable the password is and says why in the field error.
+export const passwordSchema = z
+  .string()
+  .max(MAX_PASSWORD_LENGTH, `Use at most ${MAX_PASSWORD_LENGTH} characters.`)
+  .refine((p) => passwordLength(p) >= MIN_PASSWORD_LENGTH, `Use at least ${MIN_PASSWORD_LENGTH} characters; spaces at the ends and repeated spaces do not count.`);
 
 export const setPasswordSchema = z.object({ token: z.string().min(10).max(200), password: passwordSchema });
+
+export const forgotPasswordSchema = z.object({ email: z.string().trim().toLowerCase().email('Enter an e-mail address.').max(254) });
 
 export const inviteUserSchema = z.object({
   email: z.string().trim().toLowerCase().email('Enter an e-mail address.'),

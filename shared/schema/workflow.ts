@@ -40,6 +40,8 @@ export const decisionSchema = z
   .object({
     decision: z.enum(['approve', 'return'], 'Choose approve or return.'),
     comment: z.string().trim().max(10_000).default(''),
+    // Approving is a signature: the reviewer re-enters their password (checked by the server, never stored).
+    password: z.string().max(200).optional(),
   })
   .superRefine((v, ctx) => {
     if (v.decision === 'return' && v.comment.length === 0) {

@@ -56,6 +56,38 @@ describe('sign-in', () => {
     expect(res.body.error.code).toBe('origin_rejected');
   });
 
+  it('when the Origin names this host with another scheme, then it is refused: https://host is not http://host', async () => {
+    const agent = await server.signIn('admin');
+    const other = server.url.replace('http://', 'https://');
+    const res = await agent.post('/api/auth/sign-out').set('Origin', other);
+    expect(res.status).toBe(403);
+    expect(res.body.error.code).toBe('origin_rejected');
+    expect((await agent.get('/api/auth/me')).status).toBe(200);
+  });
+
+  it('when a trusted proxy reports https, then the https origin is this site and plain http is refused', async () => {
+    const proxied = await startTestServer({}, { TRUST_PROXY: 'loopback' });
+    try {
+      const host = new URL(proxied.url).host;
+      const send = (origin: string) => proxied.anonymous().post('/api/auth/sign-in').set('Origin', origin).set('X-Forwarded-Proto', 'https').send({});
+      expect((await send(`https://${host}`)).status).toBe(400);
+      expect((await send(`http://${host}`)).status).toBe(403);
+    } finally {
+      await proxied.close();
+    }
+  });
+
+  it('when VOLTFALL_PUBLIC_URL is set, then its origin is accepted', async () => {
+    const published = await startTestServer({}, { VOLTFALL_PUBLIC_URL: 'https://voltfall.example.test' });
+    try {
+      const send = (origin: string) => published.anonymous().post('/api/auth/sign-in').set('Origin', origin).send({});
+      expect((await send('https://voltfall.example.test')).status).toBe(400);
+      expect((await send('http://voltfall.example.test')).status).toBe(403);
+    } finally {
+      await published.close();
+    }
+  });
+
   it('when a user signs out, then the session no longer works', async () => {
     const agent = await server.signIn('engineer');
     expect((await agent.post('/api/auth/sign-out')).status).toBe(200);

@@ -8,7 +8,7 @@ import type supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { flat, pdfsig, pdftext, qpdfCheck } from '../pdf/poppler';
 import { demoDesign, demoRequirement } from '../support/fixtures';
-import { startTestServer, type TestServer } from '../support/test-server';
+import { DEMO_PASSWORD, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 beforeAll(async () => {
@@ -50,7 +50,7 @@ describe('dossier PDF through the API', () => {
 
     await engineer.post(`/api/revisions/${id}/submit`);
     const reviewer = await server.signIn('reviewer');
-    const approved = await reviewer.post(`/api/revisions/${id}/decision`).send({ decision: 'approve', comment: 'Checked against the BOM.' });
+    const approved = await reviewer.post(`/api/revisions/${id}/decision`).send({ decision: 'approve', comment: 'Checked against the BOM.', password: DEMO_PASSWORD });
     expect(approved.status).toBe(200);
     expect(approved.body.signedPdf.sha256).toMatch(/^[0-9a-f]{64}$/);
 

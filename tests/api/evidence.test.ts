@@ -158,8 +158,9 @@ describe('evidence uploads', () => {
     const text = capture(300, 0.4, 3);
     const up = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(text), '../../etc/evil name.csv');
     expect(up.body.originalName).toBe('evil name.csv');
-    const viewer = await server.signIn('viewer');
-    const file = await viewer.get(`/api/evidence/${up.body.id}/file`).buffer(true).parse((res, cb) => {
+    // A draft's evidence is for the team (a viewer gets 404 until the revision is approved).
+    const reviewer = await server.signIn('reviewer');
+    const file = await reviewer.get(`/api/evidence/${up.body.id}/file`).buffer(true).parse((res, cb) => {
       const chunks: Buffer[] = [];
       res.on('data', (c: Buffer) => chunks.push(c));
       res.on('end', () => cb(null, Buffer.concat(chunks)));

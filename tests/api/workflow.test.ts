@@ -2,7 +2,7 @@ import Database from 'better-sqlite3';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement, failingDesign } from '../support/fixtures';
-import { startTestServer, type TestServer } from '../support/test-server';
+import { DEMO_PASSWORD, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 beforeAll(async () => {
@@ -93,10 +93,16 @@ describe('the life of a revision', () => {
     expect(time.to.value).toBeLessThan(time.from.value);
 
     await engineer.post(`/api/revisions/${second.body.id}/submit`);
-    const approved = await reviewer.post(`/api/revisions/${second.body.id}/decision`).send({ decision: 'approve', comment: 'Meets the limit with margin.' });
+    const approved = await reviewer.post(`/api/revisions/${second.body.id}/decision`).send({ decision: 'approve', comment: 'Meets the limit with margin.', password: DEMO_PASSWORD });
     expect(approved.status).toBe(200);
     expect(approved.body.status).toBe('approved');
-    expect(approved.body.decision).toMatchObject({ decision: 'approve', reviewer: { email: 'reviewer@fennel.test' } });
+    expect(approved.body.decision).toMatchObject({
+      decision: 'approve',
+      reviewer: { email: 'reviewer@fennel.test' },
+      signerName: 'Marta Kowalczyk',
+      signerRole: 'reviewer',
+      meaning: 'approved as reviewer',
+    });
     expect(approved.body.decision.contentHash).toBe(approved.body.contentHash);
   });
 });
@@ -145,7 +151,7 @@ describe('separation of duties and permissions', () => {
     await admin.patch(`/api/users/${reviewerUser.id}`).send({ role: 'reviewer' });
 
     const asReviewer = await server.signIn('reviewer');
-    const res = await asReviewer.post(`/api/revisions/${revId}/decision`).send({ decision: 'approve', comment: '' });
+    const res = await asReviewer.post(`/api/revisions/${revId}/decision`).send({ decision: 'approve', comment: '', password: DEMO_PASSWORD });
     expect(res.status).toBe(403);
     expect(res.body.error.message).toMatch(/separation of duties/);
   });
@@ -164,7 +170,7 @@ describe('separation of duties and permissions', () => {
     await engineer.patch(`/api/revisions/${draftId}`).send({ design: failingDesign });
     await engineer.post(`/api/revisions/${draftId}/submit`);
     const reviewer = await server.signIn('reviewer');
-    const res = await reviewer.post(`/api/revisions/${draftId}/decision`).send({ decision: 'approve', comment: 'looks fine' });
+    const res = await reviewer.post(`/api/revisions/${draftId}/decision`).send({ decision: 'approve', comment: 'looks fine', password: DEMO_PASSWORD });
     expect(res.status).toBe(409);
     expect(res.body.error.message).toMatch(/cannot be approved: it fails Bleeder resistor dissipation/);
     expect((await engineer.get(`/api/revisions/${draftId}`)).body.status).toBe('in_review');
@@ -177,7 +183,7 @@ describe('separation of duties and permissions', () => {
     const a = await server.signIn('reviewer');
     const b = await server.signIn('reviewer');
     const results = await Promise.all([
-      a.post(`/api/revisions/${draftId}/decision`).send({ decision: 'approve', comment: 'A' }),
+      a.post(`/api/revisions/${draftId}/decision`).send({ decision: 'approve', comment: 'A', password: DEMO_PASSWORD }),
       b.post(`/api/revisions/${draftId}/decision`).send({ decision: 'return', comment: 'B' }),
     ]);
     expect(results.map((r) => r.status).sort()).toEqual([200, 409]);

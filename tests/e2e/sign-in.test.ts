@@ -56,6 +56,43 @@ describe('signing in through the browser', () => {
     await p.close();
   });
 
+  it('Forgot password? → e-mail → one-time link → a new password → sign in with it', async () => {
+    const p = await browser.page(PHONE);
+    await p.page.goto(`${browser.server.url}/sign-in`);
+    await p.page.getByTestId('forgot-password-link').click();
+    await p.page.getByTestId('forgot-password-screen').waitFor();
+    await p.page.getByTestId('forgot-password-email').fill('engineer2@fennel.test');
+    await p.shot('forgot-password-phone');
+    await p.page.getByTestId('forgot-password-submit').click();
+    await expect.poll(() => p.page.getByTestId('forgot-password-sent').textContent()).toMatch(/If an active account has this e-mail address/);
+    await p.shot('forgot-password-sent-phone');
+
+    await browser.server.ctx.background.settled();
+    const mail = await browser.server.waitForMail((m) => m.to.includes('engineer2@fennel.test') && m.subject.includes('Reset'));
+    const link = /(http:\/\/\S+\/set-password\?token=[\w-]+)/.exec(mail.text)![1].replace(/^http:\/\/localhost:\d+/, browser.server.url);
+    await p.page.goto(link);
+    await expect.poll(() => p.page.getByTestId('set-password-intro').textContent()).toMatch(/Choose a new password for engineer2@fennel.test/);
+    // Too easy to guess: the server says why on the field.
+    await p.page.getByTestId('set-password-new').fill('PriyaRaman2024');
+    await p.page.getByTestId('set-password-repeat').fill('PriyaRaman2024');
+    await p.page.getByTestId('set-password-submit').click();
+    await expect.poll(() => p.page.getByTestId('set-password-new-error').textContent()).toMatch(/built from your name/);
+    await p.shot('reset-weak-password-phone');
+    await p.page.getByTestId('set-password-new').fill('lantern ferry maple nine');
+    await p.page.getByTestId('set-password-repeat').fill('lantern ferry maple nine');
+    await p.page.getByTestId('set-password-submit').click();
+    await p.page.getByTestId('password-set').waitFor();
+
+    await p.page.goto(`${browser.server.url}/sign-in`);
+    await p.page.getByTestId('sign-in-email').fill('engineer2@fennel.test');
+    await p.page.getByTestId('sign-in-password').fill('lantern ferry maple nine');
+    await p.page.getByTestId('sign-in-submit').click();
+    await p.page.getByTestId('overview-screen').waitFor();
+    // The weak password's 400 is the expected answer.
+    expect(p.problems.filter((x) => !x.includes('400'))).toEqual([]);
+    await p.close();
+  });
+
   it('when someone opens a deep link without signing in, then they land on sign-in; an unknown path shows the 404 screen', async () => {
     const p = await browser.page(WIDE);
     await p.page.goto(`${browser.server.url}/team`);

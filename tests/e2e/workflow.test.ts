@@ -4,6 +4,7 @@ import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { pdfsig } from '../pdf/poppler';
+import { DEMO_PASSWORD } from '../support/test-server';
 import { openBrowser, PHONE, WIDE, type Browser, type WatchedPage } from './browser';
 
 let browser: Browser;
@@ -130,7 +131,10 @@ describe('dossier review story at phone width', () => {
 
     await openReviewTab(reviewer, second);
     await fill(reviewer.page, 'decision-comment', 'Margin acceptable at the slow corner.');
+    // Approving is a signature: the dialog asks for the reviewer's password.
     await reviewer.page.getByTestId('approve').click();
+    await reviewer.page.getByTestId('approve-password').fill(DEMO_PASSWORD);
+    await reviewer.page.getByTestId('approve-confirm').click();
     await expect.poll(() => reviewer.page.getByTestId('decision').textContent(), { timeout: 20_000 }).toMatch(/Approved by Marta Kowalczyk/);
     await reviewer.shot('workflow-07-approved-phone');
 
@@ -147,7 +151,8 @@ describe('dossier review story at phone width', () => {
 
     expect(engineer.problems).toEqual([]);
     expect(reviewer.problems).toEqual([]);
-  });
+    // The whole story drives two browsers through two reviews and a signature; a loaded machine needs more than the default minute.
+  }, 150_000);
 
   it('the revision page reads well on a wide screen', async () => {
     const p = await browser.page(WIDE);

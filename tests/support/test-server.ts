@@ -6,7 +6,7 @@ import { join } from 'node:path';
 import supertest from 'supertest';
 import { loadConfig, type Config } from '../../server/config';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../server/db/seed';
-import { startServer, type RunningServer } from '../../server/server';
+import { startServer, type RunningServer, type StartOptions } from '../../server/server';
 
 export type DemoRole = 'admin' | 'engineer' | 'engineer2' | 'reviewer' | 'viewer';
 
@@ -21,13 +21,24 @@ export interface TestServer extends RunningServer {
   waitForMail(predicate: (m: { to: string; subject: string; text: string; html: string | null }) => boolean, timeoutMs?: number): Promise<{ to: string; subject: string; text: string; html: string | null }>;
 }
 
-export async function startTestServer(overrides: Partial<Config> = {}, env: Record<string, string> = {}): Promise<TestServer> {
+/** A clock the test moves by hand, so expiry is tested without sleeping. */
+export class FakeClock {
+  constructor(private ms = Date.now()) {}
+  now(): number {
+    return this.ms;
+  }
+  advance(ms: number): void {
+    this.ms += ms;
+  }
+}
+
+export async function startTestServer(overrides: Partial<Config> = {}, env: Record<string, string> = {}, options: StartOptions = {}): Promise<TestServer> {
   const dataDir = mkdtempSync(join(tmpdir(), 'vf-test-'));
   const config = loadConfig(
     { NODE_ENV: 'test', PORT: '0', HOST: '127.0.0.1', VOLTFALL_DATA_DIR: dataDir, FAKE_SMTP_PORT: '0', LOG_LEVEL: 'silent', SIGN_IN_LIMIT_PER_15_MIN: '1000', ...env },
     overrides,
   );
-  const running = await startServer(config);
+  const running = await startServer(config, options);
   const origin = running.url;
   const agentFor = () => {
     const agent = supertest.agent(running.server);
