@@ -31,6 +31,7 @@ export const REQUIREMENT_FIELDS: FieldSpec[] = [
   { path: 'maxEnergy', label: 'Energy limit (optional)', kind: q('J'), placeholder: '0.2 J' },
   { path: 'maxCharge', label: 'Charge limit (optional)', kind: q('C'), placeholder: '45 µC' },
   { path: 'fallbackMaxTime', label: 'Bleeder-only time limit (optional)', kind: q('s'), placeholder: '120 s' },
+  { path: 'singleFaultMaxTime', label: 'Time limit under a single fault (optional, if longer)', kind: q('s'), placeholder: 'same as the time limit' },
 ];
 
 export const DESIGN_GROUPS: FieldGroup[] = [

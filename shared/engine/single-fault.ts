@@ -81,7 +81,10 @@ function shortedResistorChecks(design: Design, worst: Scenario): Check[] {
   const perResistor = v0 / remaining;
   // Continuous dissipation P = V²/R_min of each remaining resistor.
   const power = perResistor ** 2 / net.resistorUnit.min;
-  const sharing = `One of ${bleeder.series} resistors in series shorted: the other ${remaining === 1 ? 'one carries' : `${remaining} share`} the ${q(v0, 'V')} maximum bus, ${q(perResistor, 'V')} each`;
+  const sharing =
+    remaining === 1
+      ? `One of 2 resistors in series shorted: the other carries the whole ${q(v0, 'V')} maximum bus`
+      : `One of ${bleeder.series} resistors in series shorted: the other ${remaining} share the ${q(v0, 'V')} maximum bus, ${q(perResistor, 'V')} each`;
   return [
     upperLimitCheck({
       id: 'single-fault-power',

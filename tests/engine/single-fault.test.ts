@@ -153,7 +153,7 @@ describe('single-fault checks by hand from published examples', () => {
     const voltage = check(result, 'single-fault-voltage');
     expect(voltage).toMatchObject({ limit: 1000, pass: true });
     expect(voltage.value).toBeCloseTo(800, 9);
-    expect(voltage.detail).toMatch(/^One of 2 resistors in series shorted: the other one carries the 800 V maximum bus, 800 V each; limit: the limiting element voltage 1 kV$/);
+    expect(voltage.detail).toMatch(/^One of 2 resistors in series shorted: the other carries the whole 800 V maximum bus; limit: the limiting element voltage 1 kV$/);
     expect(result.verdict).toBe('fails');
   });
 
