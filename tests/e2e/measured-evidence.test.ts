@@ -102,10 +102,11 @@ describe('single-fault checks and referred captures in the browser', () => {
         await uploadThroughPage(p.page, 'bench-500V.csv', capture(500, 0.79));
         const counted = p.page.locator('[data-testid$="-counted"]');
         await expect.poll(() => counted.count(), { timeout: 20_000 }).toBe(2);
+        const uploaded = (await api.get(`/api/revisions/${second}`)).body.evidence.find((e: { originalName: string }) => e.originalName === 'bench-500V.csv');
         // RC decay law with the 10 MΩ probe taken out (C at its −5 % tolerance, 6.27 µF): τ_u = 1/(1/0.79 − 1/62.7) = 0.800 s; t = τ_u·ln(622/60) = 1.87 s.
-        expect(await counted.nth(1).textContent()).toMatch(/^Counts as 1\.87 s from the 622 V maximum bus \(referred from 500 V\)\.$/);
-        expect(await p.page.locator('[data-testid$="-probe"]').nth(2).textContent()).toMatch(/Instrument input 10 MΩ across the capacitor/);
-        await counted.nth(1).scrollIntoViewIfNeeded();
+        expect(await p.page.getByTestId(`analysis-${uploaded.id}-counted`).textContent()).toMatch(/^Counts as 1\.87 s from the 622 V maximum bus \(referred from 500 V\)\.$/);
+        expect(await p.page.getByTestId(`analysis-${uploaded.id}-probe`).textContent()).toMatch(/Instrument input 10 MΩ across the capacitor/);
+        await p.page.getByTestId(`analysis-${uploaded.id}-counted`).scrollIntoViewIfNeeded();
         await p.shot('fault-evidence-phone-counted');
         await p.page.getByTestId('revision-tabs-design').click();
       }
