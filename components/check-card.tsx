@@ -1,6 +1,6 @@
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, radius, space, type } from '../constants/theme';
-import type { Check } from '../shared/schema/discharge';
+import { isInformational, type Check } from '../shared/schema/discharge';
 import { formatPercent, formatQuantity } from '../shared/units';
 import { Badge } from './ui/badge';
 
@@ -16,11 +16,17 @@ const show = (value: number, unit: string) => (unit ? formatQuantity(value, unit
 function comparison(check: Check): string {
   if (check.value === null) return 'No value';
   const value = show(check.value, check.unit);
+  if (check.band) {
+    const where = check.value < check.band.lower ? 'below' : check.value > check.band.upper ? 'above' : 'within';
+    return `${value} ${where} the band ${show(check.band.lower, check.unit)} – ${show(check.band.upper, check.unit)}`;
+  }
   return check.limit === null ? value : `${value} against a limit of ${show(check.limit, check.unit)}`;
 }
 
 function marginText(check: Check): string | null {
   if (check.margin === null) return null;
+  // Against a band the margin is to the nearer end (or past the end it falls beyond).
+  if (check.band) return check.margin >= 0 ? `${formatPercent(check.margin, 2)} inside the nearer end` : `${formatPercent(-check.margin, 2)} beyond the band`;
   if (check.margin >= 0) return `${formatPercent(check.margin, 2)} margin`;
   // Far past the limit a ratio reads better than "over by 1300 %".
   return check.margin > -1
@@ -30,7 +36,7 @@ function marginText(check: Check): string | null {
 
 /** One check of the discharge result: what was compared, the outcome in words and a mark, and what decided it. */
 export function CheckCard({ check, testID = `check-${check.id}` }: Props) {
-  const informative = check.limit === null;
+  const informative = isInformational(check);
   const margin = marginText(check);
   return (
     <View testID={testID} style={[styles.card, !informative && !check.pass && styles.failed]} accessibilityLabel={`${check.label}: ${informative ? 'for information' : check.pass ? 'pass' : 'fail'}`}>

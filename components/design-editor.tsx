@@ -171,7 +171,7 @@ export function FieldGrid({ children }: { children: ReactNode[] }) {
 
 const MIN_FIELD_WIDTH = 200;
 
-const MAINS_RMS: FieldKind = { type: 'quantity', unit: 'V' };
+const MAINS_RMS: FieldKind = { type: 'quantity', unit: 'V', supply: 'ac' };
 const MAINS_TOLERANCE: FieldKind = { type: 'percent' };
 
 /** Four significant digits, rounded up so the maximum bus is never understated. */

@@ -2,11 +2,13 @@ import { useState } from 'react';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, radius, space, type } from '../constants/theme';
 import { PRESET_CAUTION, REQUIREMENT_PRESETS, type RequirementPreset } from '../constants/presets';
-import { REQUIREMENT_FIELDS } from '../shared/design-fields';
+import { REQUIREMENT_FIELDS, type FieldSpec } from '../shared/design-fields';
 import type { RequirementDraft } from '../shared/schema/discharge';
+import { formatQuantity } from '../shared/units';
 import { FieldGrid, type FieldProblem } from './design-editor';
 import { Button } from './ui/button';
 import { Card } from './ui/card';
+import { Choice } from './ui/choice';
 import { QuantityField } from './ui/quantity-field';
 import { TextField } from './ui/text-field';
 
@@ -20,11 +22,25 @@ interface Props {
   serverErrors?: readonly FieldProblem[];
 }
 
-type NumberKey = 'safeVoltage' | 'maxTime' | 'maxEnergy' | 'maxCharge' | 'fallbackMaxTime';
+type NumberKey = 'safeVoltage' | 'maxTime' | 'maxEnergy' | 'maxCharge' | 'fallbackMaxTime' | 'singleFaultMaxTime';
+
+const FAULT_LIMIT = 'singleFaultMaxTime';
+
+const FAULT_OPTIONS = [
+  { value: 'normal', label: 'Normal condition only' },
+  { value: 'single-fault', label: 'Also under a single fault' },
+] as const;
+
+/** The single-fault part of a requirement in one sentence, or null when it is not asked for. */
+export function singleFaultText(requirement: Pick<RequirementDraft, 'singleFault' | 'singleFaultMaxTime' | 'maxTime'>): string | null {
+  if (!requirement.singleFault) return null;
+  const limit = requirement.singleFaultMaxTime ?? requirement.maxTime;
+  return `Also under a single fault (one bleeder resistor open, one series resistor shorted)${limit != null ? `, within ${formatQuantity(limit, 's')}` : ''}.`;
+}
 
 /** The preset whose figures and reference text the requirement still carries, if any. */
 function matchingPreset(value: RequirementDraft): RequirementPreset | undefined {
-  const keys: NumberKey[] = ['safeVoltage', 'maxTime', 'maxEnergy', 'maxCharge', 'fallbackMaxTime'];
+  const keys: Array<Exclude<NumberKey, typeof FAULT_LIMIT>> = ['safeVoltage', 'maxTime', 'maxEnergy', 'maxCharge', 'fallbackMaxTime'];
   return REQUIREMENT_PRESETS.find(
     (p) => p.values.reference === value.reference && keys.every((k) => (p.values[k] ?? null) === (value[k] ?? null)),
   );
@@ -38,6 +54,22 @@ export function RequirementEditor({ value, onChange, readOnly, testIDPrefix = 'r
   const [choosing, setChoosing] = useState(false);
   const errorAt = (path: string) => serverErrors.find((e) => e.path === `requirement.${path}`)?.message;
   const preset = matchingPreset(value);
+  const field = (spec: FieldSpec) => {
+    const key = spec.path as NumberKey;
+    return (
+      <QuantityField
+        key={spec.path}
+        label={spec.label}
+        kind={spec.kind}
+        value={value[key]}
+        onChange={(v) => onChange({ ...value, [key]: v })}
+        testID={`${testIDPrefix}-${spec.path}`}
+        placeholder={spec.placeholder}
+        error={errorAt(spec.path)}
+        readOnly={readOnly}
+      />
+    );
+  };
 
   return (
     <Card title="Requirement" testID={testIDPrefix}>
@@ -77,24 +109,26 @@ export function RequirementEditor({ value, onChange, readOnly, testIDPrefix = 'r
           </Text>
         </View>
       ) : null}
-      <FieldGrid>
-        {REQUIREMENT_FIELDS.map((spec) => {
-          const key = spec.path as NumberKey;
-          return (
-            <QuantityField
-              key={spec.path}
-              label={spec.label}
-              kind={spec.kind}
-              value={value[key]}
-              onChange={(v) => onChange({ ...value, [key]: v })}
-              testID={`${testIDPrefix}-${spec.path}`}
-              placeholder={spec.placeholder}
-              error={errorAt(spec.path)}
-              readOnly={readOnly}
-            />
-          );
-        })}
-      </FieldGrid>
+      <FieldGrid>{REQUIREMENT_FIELDS.filter((spec) => spec.path !== FAULT_LIMIT).map(field)}</FieldGrid>
+      <View style={styles.fault} testID={`${testIDPrefix}-fault`}>
+        <Choice
+          label="Condition the discharge must hold under (your standard decides)"
+          testID={`${testIDPrefix}-singleFault`}
+          options={FAULT_OPTIONS}
+          value={value.singleFault ? 'single-fault' : 'normal'}
+          disabled={readOnly}
+          onChange={(v) => onChange({ ...value, singleFault: v === 'single-fault', ...(v === 'normal' ? { singleFaultMaxTime: null } : {}) })}
+        />
+        {value.singleFault ? (
+          <>
+            <Text style={type.small}>
+              Adds the worst-case time with one bleeder resistor open (its string lost) and the stress on the others with one series resistor shorted. Not needed
+              where the standard accepts the bleeder as a reliable component.
+            </Text>
+            <FieldGrid>{REQUIREMENT_FIELDS.filter((spec) => spec.path === FAULT_LIMIT).map(field)}</FieldGrid>
+          </>
+        ) : null}
+      </View>
       <View style={styles.row}>
         <TextField
           label="Condition (when and where the limit applies)"
@@ -126,6 +160,7 @@ export function RequirementEditor({ value, onChange, readOnly, testIDPrefix = 'r
 const styles = StyleSheet.create({
   // A row so the text field's own flex basis sizes its width, not its height.
   row: { flexDirection: 'row' },
+  fault: { gap: space.sm },
   presets: { gap: space.sm, alignItems: 'stretch' },
   presetList: { gap: space.xs },
   preset: { padding: space.md, borderRadius: radius.md, borderWidth: 1, borderColor: colors.line, backgroundColor: colors.surface, gap: 2 },

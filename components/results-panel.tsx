@@ -2,7 +2,7 @@ import { Platform, StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, radius, space, type } from '../constants/theme';
 import { ALL_DESIGN_FIELDS, DESIGN_GROUPS, REQUIREMENT_FIELDS } from '../shared/design-fields';
 import { completeInput, spiceNetlist } from '../shared/engine';
-import type { BleederOption, DesignDraft, DischargeResult, NetworkState, RequirementDraft, Suggestion } from '../shared/schema/discharge';
+import { isInformational, type BleederOption, type DesignDraft, type DischargeResult, type NetworkState, type RequirementDraft, type Suggestion } from '../shared/schema/discharge';
 import { formatQuantity } from '../shared/units';
 import { CautionLine } from './caution-line';
 import { CheckCard } from './check-card';
@@ -41,7 +41,7 @@ export function inputLabel(path: string): string {
 
 function verdictText(result: DischargeResult): { mark: string; words: string; tone: 'pass' | 'fail' | 'pending' } {
   if (result.verdict === 'incomplete') return { mark: '◷', words: 'Incomplete: no verdict yet', tone: 'pending' };
-  const judged = result.checks.filter((c) => !c.alternative && c.limit !== null);
+  const judged = result.checks.filter((c) => !c.alternative && !isInformational(c));
   const failed = result.checks.filter((c) => !c.alternative && !c.pass);
   if (result.verdict === 'meets') return { mark: '✓', words: `Meets every check (${judged.length} of ${judged.length})`, tone: 'pass' };
   return { mark: '✕', words: `Fails: ${failed.length} of ${judged.length} checks`, tone: 'fail' };

@@ -1,15 +1,33 @@
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, radius, space, type } from '../constants/theme';
 import { formatQuantity } from '../shared/units';
-import type { Revision } from '../hooks/types';
+import type { CheckChange, Revision } from '../hooks/types';
 import { useRevisionDiff } from '../hooks/use-revision';
 import { VerdictBadge } from './status';
 import { Badge } from './ui/badge';
 import { Card } from './ui/card';
 import { Message } from './ui/message';
 
-const show = (side: { value: number | null; unit: string; pass: boolean } | null) =>
-  side ? `${side.value === null ? '—' : formatQuantity(side.value, side.unit)} (${side.pass ? 'pass' : 'fail'})` : '—';
+const outcome = (side: NonNullable<CheckChange['from']>) => (side.informational ? 'for information' : side.pass ? 'pass' : 'fail');
+
+const show = (side: CheckChange['from']) => (side ? `${side.value === null ? '—' : formatQuantity(side.value, side.unit)} (${outcome(side)})` : '—');
+
+interface CheckGroup {
+  key: string;
+  evidence: CheckChange['evidence'];
+  checks: CheckChange[];
+}
+
+/** The design's checks first, then each capture's checks under its file, in the diff's order. */
+function groupByFile(checks: readonly CheckChange[]): CheckGroup[] {
+  const groups = new Map<string, CheckGroup>([['design', { key: 'design', evidence: null, checks: [] }]]);
+  for (const c of checks) {
+    const key = c.evidence ? c.evidence.sha256 : 'design';
+    if (!groups.has(key)) groups.set(key, { key, evidence: c.evidence, checks: [] });
+    groups.get(key)!.checks.push(c);
+  }
+  return [...groups.values()].filter((g) => g.checks.length > 0);
+}
 
 const KIND_WORDS = { 'now-fails': 'Now fails', 'now-passes': 'Now passes', 'value-changed': 'Value changed', added: 'New check', removed: 'Check removed' } as const;
 
@@ -49,15 +67,24 @@ export function RevisionChanges({ revision }: { revision: Revision }) {
       </Card>
       <Card title={`Checks (${d.checks.length} changed)`} testID="changes-checks">
         {d.checks.length === 0 ? <Text style={type.body}>No check result changed.</Text> : null}
-        {d.checks.map((c) => (
-          <View key={c.id} style={[styles.line, c.kind === 'now-fails' && styles.alarm]} testID={`check-change-${c.id}`}>
-            <View style={styles.inline}>
-              <Badge label={KIND_WORDS[c.kind]} tone={c.kind === 'now-fails' ? 'fail' : c.kind === 'now-passes' ? 'pass' : 'neutral'} />
-              <Text style={styles.label}>{c.label}</Text>
-            </View>
-            <Text style={type.body}>
-              {show(c.from)} → <Text style={styles.strong}>{show(c.to)}</Text>
-            </Text>
+        {groupByFile(d.checks).map((group) => (
+          <View key={group.key} testID={group.evidence ? `check-changes-file-${group.evidence.sha256.slice(0, 12)}` : 'check-changes-design'}>
+            {group.evidence ? (
+              <Text style={styles.file}>
+                From {group.evidence.name} <Text style={type.mono}>{group.evidence.sha256.slice(0, 12)}</Text>
+              </Text>
+            ) : null}
+            {group.checks.map((c) => (
+              <View key={c.id} style={[styles.line, c.kind === 'now-fails' && styles.alarm]} testID={`check-change-${c.id}`}>
+                <View style={styles.inline}>
+                  <Badge label={KIND_WORDS[c.kind]} tone={c.kind === 'now-fails' ? 'fail' : c.kind === 'now-passes' ? 'pass' : 'neutral'} />
+                  <Text style={styles.label}>{c.label}</Text>
+                </View>
+                <Text style={type.body}>
+                  {show(c.from)} → <Text style={styles.strong}>{show(c.to)}</Text>
+                </Text>
+              </View>
+            ))}
           </View>
         ))}
       </Card>
@@ -94,6 +121,7 @@ export function RevisionChanges({ revision }: { revision: Revision }) {
 
 const styles = StyleSheet.create({
   wrap: { gap: space.lg },
+  file: { fontFamily: fonts.semibold, fontSize: 14, color: colors.inkMuted, paddingTop: space.sm },
   line: { paddingVertical: space.sm, borderTopWidth: 1, borderTopColor: colors.line, gap: 2 },
   alarm: { backgroundColor: colors.failSoft, paddingHorizontal: space.sm, borderRadius: radius.sm },
   inline: { flexDirection: 'row', gap: space.sm, alignItems: 'center', flexWrap: 'wrap' },

@@ -8,6 +8,7 @@ import type { Revision } from '../hooks/types';
 import type { Me } from '../hooks/use-me';
 import { useSaveRevision } from '../hooks/use-revision';
 import { DesignEditor } from './design-editor';
+import { singleFaultText } from './requirement-editor';
 import { ResultsPanel } from './results-panel';
 import { SnubberListEditor } from './snubber-list-editor';
 import { Card } from './ui/card';
@@ -73,6 +74,11 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
           <Text style={type.body}>
             At most {formatQuantity(revision.dossier.requirement.safeVoltage, 'V')} within {formatQuantity(revision.dossier.requirement.maxTime, 's')}
           </Text>
+          {singleFaultText(revision.dossier.requirement) ? (
+            <Text style={type.body} testID="revision-single-fault">
+              {singleFaultText(revision.dossier.requirement)}
+            </Text>
+          ) : null}
           {revision.dossier.requirement.reference ? <Text style={type.small}>Worked to: {revision.dossier.requirement.reference}</Text> : null}
         </Card>
         <Text style={[type.small, save.isError && styles.error]} testID="save-state">

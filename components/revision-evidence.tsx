@@ -7,6 +7,7 @@ import type { Revision } from '../hooks/types';
 import type { Me } from '../hooks/use-me';
 import { useRemoveEvidence, useUploadEvidence, type EvidenceKind } from '../hooks/use-evidence';
 import { DecayChart } from './decay-chart';
+import { ProbeResistanceField, type ProbeEntry } from './probe-resistance-field';
 import { measuredTraces } from './revision-design';
 import { formatWhen } from './revision-list';
 import { Badge } from './ui/badge';
@@ -39,6 +40,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
   const editable = revision.status === 'draft' && (revision.author.id === me.id || me.role === 'admin');
   const [kind, setKind] = useState<EvidenceKind>('waveform');
   const [capture, setCapture] = useState({ channel: '', markerChannel: '', t0: '' });
+  const [probe, setProbe] = useState<ProbeEntry>({ value: null, invalid: false });
   const upload = useUploadEvidence(revision.id, revision.dossierId);
   const remove = useRemoveEvidence(revision.id);
   const measured = measuredTraces(revision);
@@ -46,7 +48,8 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
   async function pick() {
     const picked = await DocumentPicker.getDocumentAsync({ type: PICKER_TYPES[kind], multiple: false, copyToCacheDirectory: false });
     const asset = picked.canceled ? null : picked.assets[0];
-    if (asset?.file) upload.mutate({ file: asset.file, name: asset.name, kind, ...(kind === 'waveform' ? capture : {}) });
+    const probeResistance = probe.value === null ? undefined : String(probe.value);
+    if (asset?.file) upload.mutate({ file: asset.file, name: asset.name, kind, ...(kind === 'waveform' ? { ...capture, probeResistance } : {}) });
   }
 
   return (
@@ -59,6 +62,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
               <TextField label="Voltage channel (optional)" testID="capture-channel" placeholder="first channel" value={capture.channel} onChangeText={(channel) => setCapture({ ...capture, channel })} hint="Column name or 0-based index" />
               <TextField label="Disconnect marker channel (optional)" testID="capture-marker" placeholder="none" value={capture.markerChannel} onChangeText={(markerChannel) => setCapture({ ...capture, markerChannel })} hint="Its edge marks the disconnect instant" />
               <TextField label="Disconnect instant t0 (optional, s)" testID="capture-t0" placeholder="detected" value={capture.t0} onChangeText={(t0) => setCapture({ ...capture, t0 })} hint="On the capture's own time axis" />
+              <ProbeResistanceField entry={probe} onChange={setProbe} />
             </View>
           ) : null}
           {upload.progress !== null ? (
@@ -69,7 +73,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
           ) : null}
           {upload.error ? <Message tone="error" text={upload.error.message} testID="upload-error" /> : null}
           <View style={styles.button}>
-            <Button label="Choose a file" testID="choose-file" busy={upload.isPending} onPress={pick} />
+            <Button label="Choose a file" testID="choose-file" busy={upload.isPending} disabled={kind === 'waveform' && probe.invalid} onPress={pick} />
           </View>
         </Card>
       ) : (
@@ -108,6 +112,12 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
                   ? `Fitted time constant ${formatQuantity(e.analysis.tau, 's')} (R² ${e.analysis.rSquared?.toFixed(4) ?? '—'}).`
                   : 'Not a clean exponential (poor fit): only the crossing time is used.'}
               </Text>
+              <Text style={type.body} testID={`analysis-${e.id}-probe`}>
+                {e.analysis.probeResistance
+                  ? `Instrument input ${formatQuantity(e.analysis.probeResistance, 'Ω')} across the capacitor: corrected for in the checks.`
+                  : 'No instrument input resistance given: loading not corrected.'}
+              </Text>
+              <MeasuredFigure revision={revision} evidenceId={e.id} />
               {e.analysis.notes?.map((n, i) => (
                 <Text key={i} style={type.small}>
                   · {n}
@@ -126,6 +136,24 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
         </Card>
       ))}
     </View>
+  );
+}
+
+/** What the capture counts as in the results: its measured-discharge check, referred to the worst case. */
+function MeasuredFigure({ revision, evidenceId }: { revision: Revision; evidenceId: number }) {
+  const check = revision.results.checks.find((c) => c.evidenceId === evidenceId && c.id.split(':')[0] === 'measured-discharge');
+  if (!check?.referral) return null;
+  const { referral } = check;
+  const counted =
+    check.value === null
+      ? 'Counts as no value: see the check on the Design tab.'
+      : referral.start === 'referred'
+        ? `Counts as ${formatQuantity(check.value, 's')} from the ${formatQuantity(referral.maxVoltage, 'V')} maximum bus (referred from ${formatQuantity(referral.v0, 'V')}).`
+        : `Counts as ${formatQuantity(check.value, 's')}.`;
+  return (
+    <Text style={[type.body, styles.strong]} testID={`analysis-${evidenceId}-counted`}>
+      {counted}
+    </Text>
   );
 }
 

@@ -1,5 +1,7 @@
 // Shapes of the API's answers as the app reads them (the server's JSON contract, DESIGN.md §5).
 import type { EvidenceView, RevisionView } from '../shared/schema/api';
+
+export type { CheckChange, RevisionDiff } from '../shared/schema/api';
 import type { DischargeResult, Requirement } from '../shared/schema/discharge';
 import type { RevisionStatus } from '../shared/schema/workflow';
 
@@ -56,22 +58,6 @@ export type EvidenceRecord = EvidenceView;
 export interface Revision extends RevisionView {
   dossier: Omit<Dossier, 'revisions'>;
   siblings: Array<{ id: number; number: number; status: RevisionStatus }>;
-}
-
-export interface RevisionDiff {
-  revision: { id: number; number: number };
-  against: { id: number; number: number };
-  inputs: Array<{ path: string; label: string; from: string; to: string; changePct: number | null }>;
-  verdict: { from: Verdict; to: Verdict } | null;
-  checks: Array<{
-    id: string;
-    label: string;
-    from: { value: number | null; pass: boolean; unit: string } | null;
-    to: { value: number | null; pass: boolean; unit: string } | null;
-    kind: 'now-fails' | 'now-passes' | 'value-changed' | 'added' | 'removed';
-  }>;
-  notes: { changed: boolean; parts: Array<{ added: boolean; removed: boolean; value: string }>; patch: string };
-  evidence: { added: Array<{ name: string; sha256: string; kind: string }>; removed: Array<{ name: string; sha256: string; kind: string }> };
 }
 
 export interface RevisionBrief {

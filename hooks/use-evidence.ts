@@ -11,13 +11,30 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
   const client = useQueryClient();
   const [progress, setProgress] = useState<number | null>(null);
   const mutation = useMutation({
-    mutationFn: async ({ file, kind, channel, markerChannel, t0 }: { file: Blob; name: string; kind: EvidenceKind; channel?: string; markerChannel?: string; t0?: string }) => {
+    mutationFn: async ({
+      file,
+      kind,
+      channel,
+      markerChannel,
+      t0,
+      probeResistance,
+    }: {
+      file: Blob;
+      name: string;
+      kind: EvidenceKind;
+      channel?: string;
+      markerChannel?: string;
+      t0?: string;
+      /** Ω, as text the server reads with the same parser as every field. */
+      probeResistance?: string;
+    }) => {
       const form = new FormData();
       form.append('kind', kind);
       // Fields go before the file so the server reads them before the bytes arrive.
       if (channel) form.append('channel', channel);
       if (markerChannel) form.append('markerChannel', markerChannel);
       if (t0) form.append('t0', t0);
+      if (probeResistance) form.append('probeResistance', probeResistance);
       form.append('file', file, (file as File).name);
       setProgress(0);
       try {

@@ -1,9 +1,9 @@
 // One description of every input field (label, unit, how it is typed), used by the design form,
 // the revision diff and the PDF so that all three speak the same engineering units.
-import { formatPercent, formatQuantity, parsePercent, parsePpmPerK, parseQuantity, type ParseResult, type QuantityUnit } from './units';
+import { formatPercent, formatQuantity, parseCelsius, parsePercent, parsePpmPerK, parseQuantity, type ParseResult, type QuantityUnit } from './units';
 
 export type FieldKind =
-  | { type: 'quantity'; unit: QuantityUnit; allowZero?: boolean }
+  | { type: 'quantity'; unit: QuantityUnit; allowZero?: boolean; supply?: 'dc' | 'ac' }
   | { type: 'percent' }
   | { type: 'ppm' }
   | { type: 'celsius' }
@@ -31,6 +31,7 @@ export const REQUIREMENT_FIELDS: FieldSpec[] = [
   { path: 'maxEnergy', label: 'Energy limit (optional)', kind: q('J'), placeholder: '0.2 J' },
   { path: 'maxCharge', label: 'Charge limit (optional)', kind: q('C'), placeholder: '45 µC' },
   { path: 'fallbackMaxTime', label: 'Bleeder-only time limit (optional)', kind: q('s'), placeholder: '120 s' },
+  { path: 'singleFaultMaxTime', label: 'Time limit under a single fault (optional, if longer)', kind: q('s'), placeholder: 'same as the time limit' },
 ];
 
 export const DESIGN_GROUPS: FieldGroup[] = [
@@ -148,15 +149,13 @@ export function parseField(kind: FieldKind, text: string): ParseResult {
   const s = text.trim();
   switch (kind.type) {
     case 'quantity':
-      return parseQuantity(s, kind.unit, { allowZero: kind.allowZero });
+      return parseQuantity(s, kind.unit, { allowZero: kind.allowZero, supply: kind.supply });
     case 'percent':
       return parsePercent(s);
     case 'ppm':
       return parsePpmPerK(s);
-    case 'celsius': {
-      const m = /^(-?\d+(?:[.,]\d+)?)\s*(?:°?\s*C)?$/i.exec(s.replace('−', '-'));
-      return m ? { ok: true, value: Number(m[1].replace(',', '.')) } : { ok: false, error: `“${s}” is not a temperature — write e.g. “85 °C”` };
-    }
+    case 'celsius':
+      return parseCelsius(s);
     case 'count': {
       const n = Number(s);
       return Number.isInteger(n) && n >= 1 ? { ok: true, value: n } : { ok: false, error: 'Enter a whole number, 1 or more' };

@@ -1,4 +1,6 @@
 import { useEffect, useState } from 'react';
+import { StyleSheet, Text } from 'react-native';
+import { colors, fonts } from '../../constants/theme';
 import { fieldText, formatField, parseField, type FieldKind } from '../../shared/design-fields';
 import { formatPercent, formatQuantity } from '../../shared/units';
 import { TextField } from './text-field';
@@ -8,8 +10,8 @@ interface Props {
   kind: FieldKind;
   /** SI value; null or undefined when empty or not understood. */
   value: number | null | undefined;
-  /** Called with the SI value of valid text, null for empty or invalid text. */
-  onChange: (value: number | null) => void;
+  /** Called with the SI value of valid text, null for empty or invalid text, and which of the three it is. */
+  onChange: (value: number | null, state: Reading['state']) => void;
   testID: string;
   placeholder?: string;
   /** A problem found elsewhere (schema, server); shown when the text itself parses. */
@@ -52,8 +54,8 @@ function editableText(kind: FieldKind, value: number | null | undefined): string
 
 /**
  * A text field for an engineer's quantity ("470u", "2k2", "1 %", "85 °C"). It keeps the text as typed,
- * reports the SI value, says how it read the text when that differs from the typed form, and says what
- * is wrong with text it cannot read.
+ * reports the SI value, shows beside the entry how it read the text (always, while typing, so a slip
+ * such as a missing prefix is seen before it counts), and says what is wrong with text it cannot read.
  */
 export function QuantityField({ label, kind, value, onChange, testID, placeholder, error, readOnly }: Props) {
   const [text, setText] = useState(() => editableText(kind, value));
@@ -70,11 +72,16 @@ export function QuantityField({ label, kind, value, onChange, testID, placeholde
   const change = (next: string) => {
     setText(next);
     const r = read(kind, next);
-    onChange(r.state === 'ok' ? r.value : null);
+    onChange(r.state === 'ok' ? r.value : null, r.state);
   };
 
-  const shown = reading.state === 'ok' ? formatField(kind, reading.value) : '';
-  const hint = reading.state === 'ok' && kind.type !== 'count' && shown !== text.trim() ? `read as ${shown}` : undefined;
+  // Always in place (empty until the text reads as a value), so the entry does not jump when it appears.
+  const aside =
+    kind.type === 'count' ? undefined : (
+      <Text style={styles.reading} testID={`${testID}-reading`} accessibilityLiveRegion="polite">
+        {reading.state === 'ok' ? `read as ${formatField(kind, reading.value)}` : ''}
+      </Text>
+    );
 
   return (
     <TextField
@@ -89,7 +96,12 @@ export function QuantityField({ label, kind, value, onChange, testID, placeholde
       spellCheck={false}
       inputMode={kind.type === 'count' ? 'numeric' : 'text'}
       error={reading.state === 'bad' ? reading.error : error}
-      hint={hint}
+      aside={aside}
     />
   );
 }
+
+const styles = StyleSheet.create({
+  // A common width for short readings keeps the entries of a column aligned.
+  reading: { flexShrink: 1, minWidth: 96, maxWidth: '100%', fontFamily: fonts.medium, fontSize: 13, lineHeight: 18, color: colors.inkMuted },
+});

@@ -1,4 +1,4 @@
-import { forwardRef } from 'react';
+import { forwardRef, type ReactNode } from 'react';
 import { StyleSheet, Text, TextInput, View, type TextInputProps } from 'react-native';
 import { colors, fonts, radius, space, type } from '../../constants/theme';
 
@@ -7,23 +7,35 @@ interface Props extends Omit<TextInputProps, 'style'> {
   testID: string;
   error?: string;
   hint?: string;
+  /** Shown beside the entry (wrapping below it when the row is too narrow), e.g. how a quantity was read. */
+  aside?: ReactNode;
 }
 
-export const TextField = forwardRef<TextInput, Props>(function TextField({ label, error, hint, testID, ...input }, ref) {
+export const TextField = forwardRef<TextInput, Props>(function TextField({ label, error, hint, aside, testID, ...input }, ref) {
+  const field = (
+    <TextInput
+      ref={ref}
+      testID={testID}
+      accessibilityLabel={label}
+      aria-invalid={Boolean(error)}
+      placeholderTextColor={colors.inkFaint}
+      style={[styles.input, aside ? styles.inputBeside : null, error ? styles.inputError : null, input.multiline ? styles.multiline : null]}
+      {...input}
+    />
+  );
   return (
     <View style={styles.wrap}>
       <Text style={type.label} nativeID={`${testID}-label`}>
         {label}
       </Text>
-      <TextInput
-        ref={ref}
-        testID={testID}
-        accessibilityLabel={label}
-        aria-invalid={Boolean(error)}
-        placeholderTextColor={colors.inkFaint}
-        style={[styles.input, error ? styles.inputError : null, input.multiline ? styles.multiline : null]}
-        {...input}
-      />
+      {aside ? (
+        <View style={styles.row}>
+          {field}
+          {aside}
+        </View>
+      ) : (
+        field
+      )}
       {error ? (
         <Text testID={`${testID}-error`} style={styles.error} accessibilityRole="alert">
           ✕ {error}
@@ -36,7 +48,8 @@ export const TextField = forwardRef<TextInput, Props>(function TextField({ label
 });
 
 const styles = StyleSheet.create({
-  wrap: { gap: space.xs, flexGrow: 1, minWidth: 140 },
+  // Shrinks to its cell, so a reading beside the entry wraps instead of running off a phone screen.
+  wrap: { gap: space.xs, flexGrow: 1, flexShrink: 1, minWidth: 140 },
   input: {
     minHeight: 44,
     borderWidth: 1,
@@ -48,6 +61,9 @@ const styles = StyleSheet.create({
     fontSize: 16,
     color: colors.ink,
   },
+  row: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', columnGap: space.sm, rowGap: space.xs },
+  // Beside a reading the entry takes the room left, but never less than a short value needs.
+  inputBeside: { flexGrow: 1, flexShrink: 1, flexBasis: 110, minWidth: 0 },
   multiline: { minHeight: 120, paddingVertical: space.sm, textAlignVertical: 'top' },
   inputError: { borderColor: colors.fail, borderWidth: 2 },
   error: { fontFamily: fonts.medium, fontSize: 13, color: colors.fail },

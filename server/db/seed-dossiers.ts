@@ -12,6 +12,10 @@ const heronRequirement: Requirement = {
   maxEnergy: null,
   maxCharge: null,
   fallbackMaxTime: null,
+  // Two parallel strings are there so one open resistor does not remove the bleeder: prove it, against
+  // the longer wait the (invented) plan allows under a single fault.
+  singleFault: true,
+  singleFaultMaxTime: 1200,
   condition: 'After DC and AC disconnection, service cover removable with a tool; enclosure marked with a 10-minute wait',
   reference: 'Fennel Grid Labs compliance plan FGL-CP-017, residual voltage clause (demo)',
 };
@@ -31,6 +35,7 @@ const wrenRequirement: Requirement = {
   maxEnergy: null,
   maxCharge: null,
   fallbackMaxTime: null,
+  singleFault: false,
   condition: 'Operator access to the DC-link terminals after mains disconnection',
   reference: 'Drive safety plan WD400, clause on residual voltage at operator-accessible terminals (demo)',
 };

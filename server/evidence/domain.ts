@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { analysisOptionsSchema, channelRefSchema, type WaveformAnalysis } from '../../shared/schema/waveform';
+import { analysisOptionsSchema, channelRefSchema, probeResistanceFieldSchema, type WaveformAnalysis } from '../../shared/schema/waveform';
 import { appendAudit } from '../audit/chain';
 import type { SignedInUser } from '../auth/middleware';
 import type { AppContext } from '../context';
@@ -15,6 +15,8 @@ export const uploadFieldsSchema = z.object({
   channel: z.preprocess((v) => (v === '' || v === undefined ? undefined : /^\d+$/.test(String(v)) ? Number(v) : v), channelRefSchema.optional()),
   markerChannel: z.preprocess((v) => (v === '' || v === undefined ? undefined : /^\d+$/.test(String(v)) ? Number(v) : v), channelRefSchema.optional()),
   t0: z.preprocess((v) => (v === '' || v === undefined ? undefined : Number(v)), z.number().finite('t0 must be a number in seconds').optional()),
+  /** Input resistance of the measuring chain across the capacitor, Ω: the measured τ is corrected for it. */
+  probeResistance: probeResistanceFieldSchema,
 });
 
 /** Before any byte is received: the revision must be a draft the user may change. */
@@ -40,7 +42,7 @@ export async function attachEvidence(
   try {
     const parsed = uploadFieldsSchema.safeParse(fields);
     if (!parsed.success) throw validationError(parsed.error);
-    const { kind, channel, markerChannel, t0 } = parsed.data;
+    const { kind, channel, markerChannel, t0, probeResistance } = parsed.data;
     const limit = kind === 'waveform' ? ctx.config.uploadLimits.waveformBytes : ctx.config.uploadLimits.otherBytes;
     if (upload.size > limit) {
       throw new AppError(413, 'too_large', `A ${kind} file may be at most ${Math.round(limit / 1024 / 1024)} MB.`, [{ path: 'file', message: 'over the size limit' }]);
@@ -56,7 +58,8 @@ export async function attachEvidence(
     const options = analysisOptionsSchema.parse({ safeVoltage: dossier.requirement.safeVoltage, maxTime: dossier.requirement.maxTime, channel, markerChannel, t0 });
     if (kind === 'waveform') {
       try {
-        analysis = await analyseCaptureFile(upload.path, options);
+        // Kept with the analysis so the measured checks can refer the capture to the unloaded circuit.
+        analysis = { ...(await analyseCaptureFile(upload.path, options)), probeResistance: probeResistance ?? null };
       } catch (err) {
         if (err instanceof WaveformError) throw new AppError(422, `capture_${err.code.toLowerCase()}`, err.message, [{ path: 'file', message: err.message }]);
         throw err;

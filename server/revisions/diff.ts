@@ -1,39 +1,10 @@
 import { createTwoFilesPatch, diffLines } from 'diff';
 import { ALL_DESIGN_FIELDS, fieldUnitLabel, formatField, type FieldKind } from '../../shared/design-fields';
+import type { CheckChange, CheckSide, InputChange, RevisionDiff } from '../../shared/schema/api';
+import { isInformational, type Check } from '../../shared/schema/discharge';
 import type { QuantityUnit } from '../../shared/units';
 import type { Revision } from './store';
 
-export interface InputChange {
-  path: string;
-  label: string;
-  from: string;
-  to: string;
-  fromValue: number | string | null;
-  toValue: number | string | null;
-  /** SI unit of the raw values ("%" for fractions shown as percent, "" for counts and text). */
-  unit: string;
-  /** Relative change in %, when both sides are numbers and the old one is not zero. */
-  changePct: number | null;
-}
-
-export interface CheckChange {
-  id: string;
-  label: string;
-  from: { value: number | null; pass: boolean; unit: string } | null;
-  to: { value: number | null; pass: boolean; unit: string } | null;
-  /** "now-fails" stands out: a check that passed and no longer does. */
-  kind: 'now-fails' | 'now-passes' | 'value-changed' | 'added' | 'removed';
-}
-
-export interface RevisionDiff {
-  revision: { id: number; number: number };
-  against: { id: number; number: number };
-  inputs: InputChange[];
-  verdict: { from: string; to: string } | null;
-  checks: CheckChange[];
-  notes: { changed: boolean; parts: Array<{ added: boolean; removed: boolean; value: string }>; patch: string };
-  evidence: { added: Array<{ name: string; sha256: string; kind: string }>; removed: Array<{ name: string; sha256: string; kind: string }> };
-}
 
 function flatten(obj: unknown, prefix = ''): Map<string, unknown> {
   const out = new Map<string, unknown>();
@@ -88,6 +59,39 @@ function describePath(path: string, design: Revision['design']): { label: string
   return { label: path };
 }
 
+/** The file a measured check comes from, by its evidence id in that revision (or, failing that, its hash). */
+function evidenceOf(check: Check, rev: Revision): CheckChange['evidence'] {
+  if (!check.evidenceSha256) return null;
+  const row = rev.evidence.find((e) => e.id === check.evidenceId) ?? rev.evidence.find((e) => e.sha256 === check.evidenceSha256);
+  return { name: row?.originalName ?? check.evidenceSha256.slice(0, 12), sha256: check.evidenceSha256 };
+}
+
+const side = (c: Check | undefined): CheckSide | null => (c ? { value: c.value, pass: c.pass, unit: c.unit, informational: isInformational(c) } : null);
+
+/**
+ * Checks paired by id. A capture's checks carry its file's hash in their id, so a file carried into
+ * the next revision pairs with itself, and a replaced file's checks are removed and the new file's
+ * added, never compared with each other.
+ */
+function diffChecks(previous: Revision, current: Revision): CheckChange[] {
+  const oldChecks = new Map((previous.results.checks ?? []).map((c) => [c.id, c]));
+  const newChecks = new Map((current.results.checks ?? []).map((c) => [c.id, c]));
+  const checks: CheckChange[] = [];
+  for (const id of new Set([...oldChecks.keys(), ...newChecks.keys()])) {
+    const a = oldChecks.get(id);
+    const b = newChecks.get(id);
+    let kind: CheckChange['kind'] | null = null;
+    if (a && !b) kind = 'removed';
+    else if (!a && b) kind = 'added';
+    else if (a && b && a.pass && !b.pass) kind = 'now-fails';
+    else if (a && b && !a.pass && b.pass) kind = 'now-passes';
+    else if (a && b && a.value !== b.value) kind = 'value-changed';
+    if (kind) checks.push({ id, label: (b ?? a)!.label, from: side(a), to: side(b), kind, evidence: b ? evidenceOf(b, current) : evidenceOf(a!, previous) });
+  }
+  const rank: Record<CheckChange['kind'], number> = { 'now-fails': 0, 'now-passes': 1, 'value-changed': 2, added: 3, removed: 4 };
+  return checks.sort((x, y) => rank[x.kind] - rank[y.kind]);
+}
+
 /** diffRevisions: inputs in engineering units with % change, checks and verdict, notes line by line, evidence by hash. */
 export function diffRevisions(current: Revision, previous: Revision): RevisionDiff {
   const before = flatten(previous.design);
@@ -117,24 +121,7 @@ export function diffRevisions(current: Revision, previous: Revision): RevisionDi
       };
     });
 
-  const oldChecks = new Map((previous.results.checks ?? []).map((c) => [c.id, c]));
-  const newChecks = new Map((current.results.checks ?? []).map((c) => [c.id, c]));
-  const checks: CheckChange[] = [];
-  for (const id of new Set([...oldChecks.keys(), ...newChecks.keys()])) {
-    const a = oldChecks.get(id);
-    const b = newChecks.get(id);
-    const side = (c: typeof a) => (c ? { value: c.value, pass: c.pass, unit: c.unit } : null);
-    let kind: CheckChange['kind'] | null = null;
-    if (a && !b) kind = 'removed';
-    else if (!a && b) kind = 'added';
-    else if (a && b && a.pass && !b.pass) kind = 'now-fails';
-    else if (a && b && !a.pass && b.pass) kind = 'now-passes';
-    else if (a && b && a.value !== b.value) kind = 'value-changed';
-    if (kind) checks.push({ id, label: (b ?? a)!.label, from: side(a), to: side(b), kind });
-  }
-  const rank: Record<CheckChange['kind'], number> = { 'now-fails': 0, 'now-passes': 1, 'value-changed': 2, added: 3, removed: 4 };
-  checks.sort((x, y) => rank[x.kind] - rank[y.kind]);
-
+  const checks = diffChecks(previous, current);
   const oldEvidence = new Map(previous.evidence.map((e) => [e.sha256, e]));
   const newEvidence = new Map(current.evidence.map((e) => [e.sha256, e]));
   const brief = (e: Revision['evidence'][number]) => ({ name: e.originalName, sha256: e.sha256, kind: e.kind });

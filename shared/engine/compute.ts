@@ -14,12 +14,14 @@ import {
 } from '../schema/discharge';
 import { formatPercent } from '../units';
 import { balancingBound } from './balancing';
+import { informationOnly, upperLimitCheck } from './check';
 import { dischargeCurve } from './curve';
 import { pathVoltage, storedCharge, storedEnergy } from './decay';
 import { describeResistorCorner, describeScenario, describeThreshold, q } from './describe';
 import { networkCorners } from './network';
 import { type Scenario, scenario } from './scenario';
 import { sensitivity } from './sensitivity';
+import { fallbackLimit, singleFaultChecks } from './single-fault';
 import { suggestBleeder } from './suggest';
 
 export const ENGINE_VERSION = '1.0.0';
@@ -105,19 +107,11 @@ function networkState(s: Scenario): NetworkState {
   };
 }
 
-/** margin = (limit − value) / limit for an upper limit. */
-function upperLimitCheck(
-  fields: Omit<Check, 'pass' | 'margin' | 'limit' | 'value'> & { value: number; limit: number | null },
-): Check {
-  const { limit, value } = fields;
-  if (limit === null) return { ...fields, pass: true, margin: null };
-  return { ...fields, pass: value <= limit, margin: (limit - value) / limit };
-}
-
 function dischargeChecks(requirement: Requirement, design: Design, worst: Scenario): Check[] {
   const checks: Check[] = [timeCheck(requirement, design, worst)];
   if (design.active !== null) checks.push(fallbackCheck(requirement, design, worst));
   checks.push(...resistorChecks(design, worst));
+  checks.push(...singleFaultChecks(requirement, design, worst));
   checks.push(energyCheck(requirement, worst));
   if (requirement.maxCharge != null) checks.push(chargeCheck(requirement, worst));
   if (design.active?.mode === 'switched-resistor') checks.push(...switchedChecks(design, worst));
@@ -159,12 +153,9 @@ function timeCheck(requirement: Requirement, design: Design, worst: Scenario): C
 }
 
 function fallbackCheck(requirement: Requirement, design: Design, worst: Scenario): Check {
-  const limit = requirement.fallbackMaxTime ?? null;
+  const { limit, note } = fallbackLimit(requirement);
   const corner = `Bleeders alone, ${describeScenario({ ...worst, main: worst.passive }, design)}`;
-  const detail =
-    worst.passiveTimeToSafe === 0
-      ? alreadySafe(worst, requirement)
-      : `${corner}; reaches ${decidedBy(worst, requirement)}${limit === null ? '; no fallback limit set, shown for information' : ''}`;
+  const detail = worst.passiveTimeToSafe === 0 ? alreadySafe(worst, requirement) : `${corner}; reaches ${decidedBy(worst, requirement)}${note}`;
   return upperLimitCheck({
     id: 'passive-fallback-time',
     label: 'Discharge time if the active circuit fails (bleeders alone)',
@@ -285,16 +276,7 @@ function balancingCheck(design: Design, worst: Scenario): Check {
   const n = design.capacitors.series;
   const balancing = design.balancing;
   const base = { id: 'balancing', label: 'Balancing of series capacitors', unit: 'Ω' };
-  if (!balancing || n < 2) {
-    return {
-      ...base,
-      value: null,
-      limit: null,
-      pass: true,
-      margin: null,
-      detail: 'One capacitor in series: no voltage sharing to balance',
-    };
-  }
+  if (!balancing || n < 2) return informationOnly({ ...base, detail: 'One capacitor in series: no voltage sharing to balance' });
   const v0 = worst.initialVoltage;
   // The bleeder across the N capacitors is their balancing network; its highest value is the worst case.
   const perCapacitor = worst.resistance / n;

@@ -4,14 +4,36 @@ import type { Check, DesignDraft, DischargeResult, Requirement } from '../schema
 import { snubberSchema, type Snubber } from '../schema/snubber';
 import type { WaveformAnalysis } from '../schema/waveform';
 import { formatQuantity } from '../units';
+import { upperLimitCheck } from './check';
 import { completeInput, computeDischarge } from './compute';
 import { networkCorners } from './network';
 import { measuredDischargeCheck } from './measured';
 import { snubberChecks, snubberMissingInputs, snubberStoredEnergy } from './snubber';
 
+/** An analysed capture among a revision's evidence. */
 export interface MeasuredCapture {
+  /** The evidence record's id. */
+  evidenceId: number;
+  /** SHA-256 of the file (hex): the capture's identity across revisions. */
+  sha256: string;
   name: string;
   analysis: WaveformAnalysis;
+}
+
+/** Length of the SHA-256 prefix in a measured check's id, `measured-discharge:<12 hex>`. */
+export const CHECK_ID_SHA_PREFIX = 12;
+
+/**
+ * A capture's checks get ids unique within the results and stable for the same file: the kind, then
+ * the first 12 hex digits of its SHA-256 (`measured-discharge:1a2b3c4d5e6f`). The same file attached
+ * twice gets a running number from its second copy on (`…:2`), in evidence order.
+ */
+function captureChecks(capture: MeasuredCapture, checks: readonly Check[], seen: Map<string, number>): Check[] {
+  const key = capture.sha256.slice(0, CHECK_ID_SHA_PREFIX);
+  const copy = (seen.get(key) ?? 0) + 1;
+  seen.set(key, copy);
+  const suffix = copy === 1 ? key : `${key}:${copy}`;
+  return checks.map((c) => ({ ...c, id: `${c.id}:${suffix}`, evidenceId: capture.evidenceId, evidenceSha256: capture.sha256 }));
 }
 
 function snubberEnergyCheck(snubbers: readonly Snubber[], requirement: Requirement, busVoltage: number | undefined): Check | null {
@@ -19,16 +41,14 @@ function snubberEnergyCheck(snubbers: readonly Snubber[], requirement: Requireme
   if (inventory.entries.length === 0) return null;
   const limit = requirement.maxEnergy ?? null;
   const names = inventory.entries.map((e) => `${e.name} ${formatQuantity(e.energy, 'J')}`).join(', ');
-  return {
+  return upperLimitCheck({
     id: 'snubber-energy',
     label: 'Energy in accessible snubber capacitors at switch-off',
     value: inventory.total,
     limit,
     unit: 'J',
-    pass: limit === null ? true : inventory.total <= limit,
-    margin: limit === null ? null : (limit - inventory.total) / limit,
     detail: `½·C·V² at C + tolerance: ${names}${limit === null ? '; shown for the inventory, no energy limit set' : ''}`,
-  };
+  });
 }
 
 /**
@@ -64,10 +84,11 @@ export function computeRevisionResults(
     // The fast corner (R and C at their minimum, ageing included) as a fraction below the nominal τ.
     const corners = networkCorners(complete.design);
     const toleranceBand = 1 - (corners.resistance.min * corners.capacitance.min) / (corners.resistance.nominal * corners.capacitance.nominal);
+    const conditions = { ...requirement, maxVoltage: complete.design.bus.maxVoltage, capacitanceMin: corners.capacitance.min };
+    const predicted = { nominalTau: base.nominal.tau, worstCaseTau: base.worstCase.tau, toleranceBand };
+    const seen = new Map<string, number>();
     for (const capture of captures) {
-      extra.push(
-        ...measuredDischargeCheck(capture.analysis, requirement, { nominalTau: base.nominal.tau, worstCaseTau: base.worstCase.tau, toleranceBand }, capture.name),
-      );
+      extra.push(...captureChecks(capture, measuredDischargeCheck(capture.analysis, conditions, predicted, capture.name), seen));
     }
   }
 

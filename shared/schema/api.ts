@@ -58,3 +58,55 @@ export interface RevisionView<E extends EvidenceView = EvidenceView> {
   comments: Array<{ id: number; author: Person; body: string; at: string }>;
   signedPdf: { sha256: string; size: number; createdAt: string; signerKind: string } | null;
 }
+
+// The diff of two revisions (GET /api/revisions/:id/diff), DESIGN.md §5.
+
+export interface InputChange {
+  path: string;
+  label: string;
+  from: string;
+  to: string;
+  fromValue: number | string | null;
+  toValue: number | string | null;
+  /** SI unit of the raw values ("%" for fractions shown as percent, "" for counts and text). */
+  unit: string;
+  /** Relative change in %, when both sides are numbers and the old one is not zero. */
+  changePct: number | null;
+}
+
+/** One side of a changed check; `informational` when it judges nothing (show "for information"). */
+export interface CheckSide {
+  value: number | null;
+  pass: boolean;
+  unit: string;
+  informational: boolean;
+}
+
+export interface CheckChange {
+  /** The check's id; checks are paired by it (a capture's checks by its file's hash). */
+  id: string;
+  label: string;
+  from: CheckSide | null;
+  to: CheckSide | null;
+  /** "now-fails" stands out: a check that passed and no longer does. */
+  kind: 'now-fails' | 'now-passes' | 'value-changed' | 'added' | 'removed';
+  /** The evidence file a measured check comes from, to group it under the file name; null for design checks. */
+  evidence: { name: string; sha256: string } | null;
+}
+
+export interface EvidenceBrief {
+  name: string;
+  sha256: string;
+  kind: string;
+}
+
+export interface RevisionDiff {
+  revision: { id: number; number: number };
+  against: { id: number; number: number };
+  inputs: InputChange[];
+  verdict: { from: DischargeResult['verdict']; to: DischargeResult['verdict'] } | null;
+  checks: CheckChange[];
+  notes: { changed: boolean; parts: Array<{ added: boolean; removed: boolean; value: string }>; patch: string };
+  /** Files by SHA-256: a file in both revisions is carried, not added or removed. */
+  evidence: { added: EvidenceBrief[]; removed: EvidenceBrief[] };
+}

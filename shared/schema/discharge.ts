@@ -117,6 +117,13 @@ export const requirementSchema = z.object({
   maxCharge: quantity({ label: 'Charge limit', unit: 'C', min: 0, max: 1e3 }).nullish(),
   /** Limit for the passive bleeders alone when an active circuit is declared. */
   fallbackMaxTime: time('Fallback time limit').nullish(),
+  /**
+   * Whether the discharge must also hold under a single fault (one bleeder open, one series resistor
+   * shorted); the user's standard decides, e.g. not when the bleeder is a component judged reliable.
+   */
+  singleFault: z.boolean({ error: 'Single-fault condition must be true or false' }).default(false),
+  /** Time limit under a single fault where the standard allows longer than `maxTime`, s. */
+  singleFaultMaxTime: time('Single-fault time limit').nullish(),
   condition: text('Condition').default(''),
   reference: text('Reference').default(''),
 });
@@ -128,6 +135,8 @@ export const requirementDraftSchema = z.object({
   maxEnergy: requirementSchema.shape.maxEnergy,
   maxCharge: requirementSchema.shape.maxCharge,
   fallbackMaxTime: requirementSchema.shape.fallbackMaxTime,
+  singleFault: z.boolean({ error: 'Single-fault condition must be true or false' }).nullish(),
+  singleFaultMaxTime: requirementSchema.shape.singleFaultMaxTime,
   condition: text('Condition').nullish(),
   reference: text('Reference').nullish(),
 });
@@ -215,7 +224,47 @@ export const checkSchema = z.object({
    * and does not decide the verdict on its own.
    */
   alternative: z.boolean().optional(),
+  /**
+   * True when nothing is judged: no limit is set (stored energy without an energy limit, a fallback
+   * without its own limit), or another check covers the case. Show "for information", never a pass;
+   * `pass` stays true so it does not fail the verdict.
+   */
+  informational: z.boolean().optional(),
+  /** For a check derived from one evidence file: that evidence record's id and the file's SHA-256. */
+  evidenceId: z.number().int().optional(),
+  evidenceSha256: z.string().optional(),
+  /**
+   * For a check against a band (measured τ): both ends. `limit` is then the end the value is nearest
+   * to (or beyond), and `margin` is relative to that end.
+   */
+  band: z.object({ lower: z.number(), upper: z.number() }).optional(),
+  /** For measured checks: how the capture was referred to the requirement's conditions. */
+  referral: z
+    .object({
+      /** Crossing time as measured, s after t0 (null when the capture never stays below). */
+      measuredTime: z.number().nullable(),
+      /** Voltage at t0 in the capture, V. */
+      v0: z.number(),
+      /** The design's maximum bus voltage, V. */
+      maxVoltage: z.number(),
+      /** "as-measured": V0 ≥ V_max; "referred": extended to V_max by the RC law; "not-referable". */
+      start: z.enum(['as-measured', 'referred', 'not-referable']),
+      /** Fitted τ as measured, s (null when the fit is poor). */
+      measuredTau: z.number().nullable(),
+      /** τ referred to the circuit without the instrument, s (null when not corrected). */
+      unloadedTau: z.number().nullable(),
+      /** Input resistance of the measuring chain, Ω (null when not given: loading not corrected). */
+      probeResistance: z.number().nullable(),
+      /** Capacitance used for the loading correction (bank at its lower tolerance), F. */
+      loadingCapacitance: z.number().nullable(),
+    })
+    .optional(),
 });
+
+/** A check that informs and judges nothing; older stored results carry no flag, only no limit and a pass. */
+export function isInformational(check: Pick<Check, 'informational' | 'limit' | 'pass'>): boolean {
+  return check.informational ?? (check.limit === null && check.pass);
+}
 
 export const networkStateSchema = z.object({
   /** Network total after series/parallel, Ω. */

@@ -1,6 +1,7 @@
 // Wire format of an oscilloscope / data-logger capture analysis (DESIGN.md §3 evidence `analysis`,
 // REFERENCE.md §5). Times are seconds on the capture's own time axis (after unit scaling), voltages volts.
 import { z } from 'zod';
+import { formatQuantity, parseQuantity } from '../units';
 
 const finite = (label: string) => z.number({ error: `${label} must be a finite number` }).finite();
 
@@ -61,7 +62,42 @@ export const waveformAnalysisSchema = z.object({
   trace: z.array(tracePointSchema).max(2000),
   /** Plain-language remarks: skipped rows, units, probe ratio, how t0 was found, why a fit is poor. */
   notes: z.array(z.string()),
+  /**
+   * Input resistance of the measuring chain across the capacitor, Ω, as declared at upload; absent or
+   * null when not given (the measured checks then say that instrument loading was not corrected).
+   */
+  probeResistance: z.number().positive().nullable().optional(),
 });
+
+/** Lowest input resistance taken for a measuring instrument; below it the figure is surely a wrong unit. */
+export const PROBE_RESISTANCE_MIN = 1e3;
+
+/**
+ * The upload field `probeResistance`: text in Ω with engineers' notation ("10M", "10 MΩ", "1e7"),
+ * blank for none. Refused: non-numeric, ≤ 0, or below 1 kΩ.
+ */
+export const probeResistanceFieldSchema = z.preprocess(
+  (v) => (v === undefined || v === null || String(v).trim() === '' ? undefined : String(v)),
+  z
+    .string()
+    .transform((text, ctx) => {
+      const parsed = parseQuantity(text, 'Ω', { allowZero: true, allowNegative: true });
+      if (!parsed.ok) {
+        ctx.addIssue({ code: 'custom', message: `Probe resistance: ${parsed.error}` });
+        return z.NEVER;
+      }
+      if (parsed.value <= 0) {
+        ctx.addIssue({ code: 'custom', message: 'Probe resistance must be greater than zero (e.g. 10 MΩ)' });
+        return z.NEVER;
+      }
+      if (parsed.value < PROBE_RESISTANCE_MIN) {
+        ctx.addIssue({ code: 'custom', message: `Probe resistance of ${formatQuantity(parsed.value, 'Ω')} is below 1 kΩ: not a measuring input — check the unit (e.g. 10 MΩ)` });
+        return z.NEVER;
+      }
+      return parsed.value;
+    })
+    .optional(),
+);
 
 export type ChannelRef = z.infer<typeof channelRefSchema>;
 export type AnalysisOptions = z.infer<typeof analysisOptionsSchema>;

@@ -45,7 +45,7 @@ describe('evidence uploads', () => {
     expect(res.body.analysis.timeToSafe).toBeCloseTo(1.5 * Math.log(622 / 60), 1);
     expect(res.body.analysis.tau).toBeCloseTo(1.5, 1);
     const rev = (await engineer.get(`/api/revisions/${id}`)).body;
-    const measured = rev.results.checks.find((c: { id: string }) => c.id === 'measured-discharge');
+    const measured = rev.results.checks.find((c: { id: string }) => c.id === `measured-discharge:${res.body.sha256.slice(0, 12)}`);
     expect(measured).toBeTruthy();
     expect(measured.pass).toBe(true);
     expect(existsSync(join(server.dataDir, 'evidence', res.body.sha256))).toBe(true);
@@ -82,7 +82,7 @@ describe('evidence uploads', () => {
     expect(res.body.analysis.timeToSafe).toBeNull();
     const rev = (await engineer.get(`/api/revisions/${id}`)).body;
     expect(rev.results.verdict).toBe('fails');
-    expect(rev.results.checks.find((c: { id: string }) => c.id === 'measured-discharge').pass).toBe(false);
+    expect(rev.results.checks.find((c: { id: string }) => c.id === `measured-discharge:${res.body.sha256.slice(0, 12)}`).pass).toBe(false);
   });
 
   it('when the same file is uploaded twice, then its bytes are stored once', async () => {

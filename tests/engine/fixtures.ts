@@ -12,7 +12,7 @@ export interface Simple {
 }
 
 export function requirement(overrides: Partial<Requirement> = {}): Requirement {
-  return { safeVoltage: 60, maxTime: 5, maxEnergy: null, maxCharge: null, fallbackMaxTime: null, condition: '', reference: '', ...overrides };
+  return { safeVoltage: 60, maxTime: 5, maxEnergy: null, maxCharge: null, fallbackMaxTime: null, singleFault: false, condition: '', reference: '', ...overrides };
 }
 
 /** One capacitor, one resistor, ideal parts, bus nominal = maximum. */

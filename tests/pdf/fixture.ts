@@ -16,6 +16,7 @@ export const REQUIREMENT: Requirement = {
   maxEnergy: null,
   maxCharge: null,
   fallbackMaxTime: null,
+  singleFault: false,
   condition: 'After mains disconnection at the voltage peak; terminal cover removable without a tool',
   reference: 'IEC 61800-5-1 (edition and clause to be confirmed by the compliance engineer)',
 };

@@ -13,6 +13,8 @@ export interface BleederCircuit {
   /** Simulated span and largest time step, s. */
   stop: number;
   step: number;
+  /** Input resistance of the measuring instrument across the bank, Ω (none when absent). */
+  probe?: number;
 }
 
 export interface SpiceCapture {
@@ -22,7 +24,7 @@ export interface SpiceCapture {
 }
 
 export async function spiceCapture(circuit: BleederCircuit, level: number): Promise<SpiceCapture> {
-  const { v0, capacitance, resistance, open, stop, step } = circuit;
+  const { v0, capacitance, resistance, open, stop, step, probe } = circuit;
   const deck = [
     '* bleeder discharge after the supply relay opens',
     `V1 src 0 DC ${v0}`,
@@ -31,6 +33,7 @@ export async function spiceCapture(circuit: BleederCircuit, level: number): Prom
     '.model relay SW(VT=2.5 VH=0.1 RON=0.01 ROFF=1e12)',
     `C1 bus 0 ${capacitance}`,
     `R1 bus 0 ${resistance}`,
+    ...(probe === undefined ? [] : [`Rprobe bus 0 ${probe}`]),
     `.tran ${step} ${stop} 0 ${step}`,
   ].join('\n');
   const run = await simulate(deck, {

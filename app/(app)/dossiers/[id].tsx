@@ -1,5 +1,6 @@
 import { Link, useLocalSearchParams, useRouter } from 'expo-router';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
+import { singleFaultText } from '../../../components/requirement-editor';
 import { formatWhen } from '../../../components/revision-list';
 import { StatusBadge, VerdictBadge } from '../../../components/status';
 import { Button } from '../../../components/ui/button';
@@ -37,6 +38,11 @@ export default function DossierScreen() {
           {d.requirement.maxCharge ? `, or stored charge below ${formatQuantity(d.requirement.maxCharge, 'C')}` : ''}
           {d.requirement.fallbackMaxTime ? `; bleeders alone within ${formatQuantity(d.requirement.fallbackMaxTime, 's')}` : ''}
         </Text>
+        {singleFaultText(d.requirement) ? (
+          <Text style={type.body} testID="dossier-single-fault">
+            {singleFaultText(d.requirement)}
+          </Text>
+        ) : null}
         {d.requirement.condition ? <Text style={type.small}>Condition: {d.requirement.condition}</Text> : null}
         {d.requirement.reference ? <Text style={type.small}>Worked to: {d.requirement.reference}</Text> : null}
       </Card>
