@@ -38,7 +38,7 @@ const bytes = (n: number) => (n >= 1024 * 1024 ? `${(n / 1024 / 1024).toFixed(1)
 export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me }) {
   const editable = revision.status === 'draft' && (revision.author.id === me.id || me.role === 'admin');
   const [kind, setKind] = useState<EvidenceKind>('waveform');
-  const [capture, setCapture] = useState({ channel: '', markerChannel: '', t0: '' });
+  const [capture, setCapture] = useState({ channel: '', markerChannel: '', t0: '', scale: '' });
   const upload = useUploadEvidence(revision.id, revision.dossierId);
   const remove = useRemoveEvidence(revision.id);
   const measured = measuredTraces(revision);
@@ -59,6 +59,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
               <TextField label="Voltage channel (optional)" testID="capture-channel" placeholder="first channel" value={capture.channel} onChangeText={(channel) => setCapture({ ...capture, channel })} hint="Column name or 0-based index" />
               <TextField label="Disconnect marker channel (optional)" testID="capture-marker" placeholder="none" value={capture.markerChannel} onChangeText={(markerChannel) => setCapture({ ...capture, markerChannel })} hint="Its edge marks the disconnect instant" />
               <TextField label="Disconnect instant t0 (optional, s)" testID="capture-t0" placeholder="detected" value={capture.t0} onChangeText={(t0) => setCapture({ ...capture, t0 })} hint="On the capture's own time axis" />
+              <TextField label="Voltage scale (optional, ×)" testID="capture-scale" placeholder="1" value={capture.scale} onChangeText={(scale) => setCapture({ ...capture, scale })} hint="For probe-side volts: 100 for a 100:1 probe" />
             </View>
           ) : null}
           {upload.progress !== null ? (
@@ -108,11 +109,18 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
                   ? `Fitted time constant ${formatQuantity(e.analysis.tau, 's')} (R² ${e.analysis.rSquared?.toFixed(4) ?? '—'}).`
                   : 'Not a clean exponential (poor fit): only the crossing time is used.'}
               </Text>
-              {e.analysis.notes?.map((n, i) => (
-                <Text key={i} style={type.small}>
-                  · {n}
+              {e.analysis.warnings?.map((w, i) => (
+                <Text key={`w${i}`} style={[type.small, styles.strong]} testID={`analysis-warning-${e.id}`}>
+                  ⚠ {w}
                 </Text>
               ))}
+              {e.analysis.notes
+                ?.filter((n) => !e.analysis?.warnings?.includes(n))
+                .map((n, i) => (
+                  <Text key={i} style={type.small}>
+                    · {n}
+                  </Text>
+                ))}
             </View>
           ) : null}
           <View style={styles.row}>

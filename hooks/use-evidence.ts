@@ -11,13 +11,14 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
   const client = useQueryClient();
   const [progress, setProgress] = useState<number | null>(null);
   const mutation = useMutation({
-    mutationFn: async ({ file, kind, channel, markerChannel, t0 }: { file: Blob; name: string; kind: EvidenceKind; channel?: string; markerChannel?: string; t0?: string }) => {
+    mutationFn: async ({ file, kind, channel, markerChannel, t0, scale }: { file: Blob; name: string; kind: EvidenceKind; channel?: string; markerChannel?: string; t0?: string; scale?: string }) => {
       const form = new FormData();
       form.append('kind', kind);
       // Fields go before the file so the server reads them before the bytes arrive.
       if (channel) form.append('channel', channel);
       if (markerChannel) form.append('markerChannel', markerChannel);
       if (t0) form.append('t0', t0);
+      if (scale) form.append('scale', scale);
       form.append('file', file, (file as File).name);
       setProgress(0);
       try {
