@@ -213,6 +213,9 @@ describe('a voltage scale entered with the capture, and a probe ratio stated in 
     expectWithin(result.v0, (spec.v0 + (spec.offset ?? 0)) / 100, 0.01);
     expect(result.scale).toBe(1);
     expect(result.warnings?.[0]).toMatch(/it was not applied\. If the exported values are probe-side volts, upload the capture again with that ratio as the voltage scale/);
+    // 4 V throughout reads as safe at once; the analysis says that it proves no discharge.
+    expect(result.timeToSafe).toBe(0);
+    expect(result.warnings?.[1]).toMatch(/never rises above 60 V in the capture, so it shows no discharge from a hazardous level/);
   });
 
   test('a scale on a file without a probe setting is a note, not a warning', async () => {

@@ -71,6 +71,16 @@ async function smoothedAt(ctx: Context, t: number, span: number): Promise<number
 
 export async function measureCrossings(ctx: Context, t0: number, options: AnalysisOptions): Promise<Crossings> {
   const { safeVoltage, maxTime } = options;
+  // A capture that is safe throughout proves no discharge: more often it is the wrong channel, unit or
+  // scale (probe-side volts read as bus volts) than a bus that was never charged.
+  let peak = -Infinity;
+  for (let i = 0; i < ctx.summary.count; i++) peak = Math.max(peak, ctx.summary.vm[i]);
+  if (peak <= safeVoltage) {
+    warn(
+      ctx,
+      `The voltage never rises above ${safeVoltage} V in the capture, so it shows no discharge from a hazardous level. Check the channel, its unit and the voltage scale.`,
+    );
+  }
   const fall = await crossing(ctx, t0, safeVoltage, 1);
   const swing = await crossing(ctx, t0, safeVoltage, -1);
   const crossAt = fall === null || swing === null ? null : Math.max(fall, swing);

@@ -100,14 +100,14 @@ function findRun(lines: LineInfo[], sep: number, allLines: boolean): Candidate |
       }
     }
     const headerCells = header === null ? [] : headerRow(lines[header], sepText);
-    // A trailing separator on the header or on the data rows leaves one empty cell more on one side;
-    // without one, a header one cell short belongs to another separator (a one-column "402,5" file is
-    // not two columns under a comma).
+    // A trailing separator on the header or on the data rows leaves one empty cell more on one side.
+    // A single name over two values without one is a one-column file under another separator: "402,5"
+    // under "U (V)" is one value with a decimal comma, not two columns.
     const count = headerCells.length - (headerCells[headerCells.length - 1]?.text === '' ? 1 : 0);
     // A metadata line right above the data ("# increment: 1E-04 s" over one column of values) is no header.
     const headerMatches =
       header !== null &&
-      (count === fields || (count === fields - 1 && trailingEmpty)) &&
+      (count === fields || (count === fields - 1 && (trailingEmpty || count > 1))) &&
       headerCells.every((c) => cellKind(c, commaDecimal) !== 'number') &&
       !isMetadataLine(lines[header].text, sepText, commaDecimal);
     return { sep, start, length, fields, decimalComma, header, headerMatches };
