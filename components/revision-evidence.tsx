@@ -39,7 +39,7 @@ const bytes = (n: number) => (n >= 1024 * 1024 ? `${(n / 1024 / 1024).toFixed(1)
 export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me }) {
   const editable = revision.status === 'draft' && (revision.author.id === me.id || me.role === 'admin');
   const [kind, setKind] = useState<EvidenceKind>('waveform');
-  const [capture, setCapture] = useState({ channel: '', markerChannel: '', t0: '' });
+  const [capture, setCapture] = useState({ channel: '', markerChannel: '', t0: '', scale: '' });
   const [probe, setProbe] = useState<ProbeEntry>({ value: null, invalid: false });
   const upload = useUploadEvidence(revision.id, revision.dossierId);
   const remove = useRemoveEvidence(revision.id);
@@ -62,6 +62,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
               <TextField label="Voltage channel (optional)" testID="capture-channel" placeholder="first channel" value={capture.channel} onChangeText={(channel) => setCapture({ ...capture, channel })} hint="Column name or 0-based index" />
               <TextField label="Disconnect marker channel (optional)" testID="capture-marker" placeholder="none" value={capture.markerChannel} onChangeText={(markerChannel) => setCapture({ ...capture, markerChannel })} hint="Its edge marks the disconnect instant" />
               <TextField label="Disconnect instant t0 (optional, s)" testID="capture-t0" placeholder="detected" value={capture.t0} onChangeText={(t0) => setCapture({ ...capture, t0 })} hint="On the capture's own time axis" />
+              <TextField label="Voltage scale (optional, ×)" testID="capture-scale" placeholder="1" value={capture.scale} onChangeText={(scale) => setCapture({ ...capture, scale })} hint="For probe-side volts: 100 for a 100:1 probe" />
               <ProbeResistanceField entry={probe} onChange={setProbe} />
             </View>
           ) : null}
@@ -118,11 +119,18 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
                   : 'No instrument input resistance given: loading not corrected.'}
               </Text>
               <MeasuredFigure revision={revision} evidenceId={e.id} />
-              {e.analysis.notes?.map((n, i) => (
-                <Text key={i} style={type.small}>
-                  · {n}
+              {e.analysis.warnings?.map((w, i) => (
+                <Text key={`w${i}`} style={[type.small, styles.strong]} testID={`analysis-warning-${e.id}`}>
+                  ⚠ {w}
                 </Text>
               ))}
+              {e.analysis.notes
+                ?.filter((n) => !e.analysis?.warnings?.includes(n))
+                .map((n, i) => (
+                  <Text key={i} style={type.small}>
+                    · {n}
+                  </Text>
+                ))}
             </View>
           ) : null}
           <View style={styles.row}>

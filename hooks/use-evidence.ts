@@ -18,6 +18,7 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
       markerChannel,
       t0,
       probeResistance,
+      scale,
     }: {
       file: Blob;
       name: string;
@@ -27,6 +28,8 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
       t0?: string;
       /** Ω, as text the server reads with the same parser as every field. */
       probeResistance?: string;
+      /** Voltage scale factor for probe-side volts. */
+      scale?: string;
     }) => {
       const form = new FormData();
       form.append('kind', kind);
@@ -35,6 +38,7 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
       if (markerChannel) form.append('markerChannel', markerChannel);
       if (t0) form.append('t0', t0);
       if (probeResistance) form.append('probeResistance', probeResistance);
+      if (scale) form.append('scale', scale);
       form.append('file', file, (file as File).name);
       setProgress(0);
       try {

@@ -1,6 +1,7 @@
 // Benchmark of the capture reader: ingest + analysis of a generated 10-million-row capture, against the
 // parse-only throughput of two general CSV parsers on the same file. Targets (issue 5): at least 3× the
-// throughput of uDSV, and peak RSS under 128 MB for our reader.
+// throughput of uDSV, and peak RSS under 128 MB for our reader. The same capture written as UTF-16 LE
+// (issue 18) measures the cost of transcoding in the stream, beside the UTF-8 figure.
 //
 //   node --import tsx scripts/bench-waveform.ts [rows] [runs]
 //
@@ -56,6 +57,16 @@ function generate(path: string, rows: number): void {
     }
   }
   writeSync(fd, text);
+  closeSync(fd);
+}
+
+/** The UTF-8 capture as UTF-16 LE with a byte-order mark, transcoded chunk by chunk (the capture is ASCII). */
+async function writeUtf16(from: string, to: string): Promise<void> {
+  const fd = openSync(to, 'w');
+  writeSync(fd, Buffer.from([0xff, 0xfe]));
+  for await (const chunk of createReadStream(from, { highWaterMark: 1 << 20 })) {
+    writeSync(fd, Buffer.from((chunk as Buffer).toString('latin1'), 'utf16le'));
+  }
   closeSync(fd);
 }
 
@@ -136,14 +147,17 @@ const papaparse: Contender = async () => {
   };
 };
 
-const CONTENDERS = {
-  voltfall: { label: 'Voltfall reader, CH1 + marker CH2', load: voltfall('CH2') },
-  'voltfall-ch1': { label: 'Voltfall reader, CH1 only', load: voltfall(undefined) },
-  udsv: { label: 'uDSV, typed rows (parse only)', load: udsv },
-  papaparse: { label: 'papaparse, dynamicTyping (parse only)', load: papaparse },
-  idle: { label: 'idle: tsx + reader loaded, no file', load: idle },
-} as const;
-type ContenderName = keyof typeof CONTENDERS;
+type FileKind = 'utf-8' | 'utf-16le';
+
+const CONTENDERS: Record<string, { label: string; load: Contender; file: FileKind }> = {
+  voltfall: { label: 'Voltfall reader, CH1 + marker CH2', load: voltfall('CH2'), file: 'utf-8' },
+  'voltfall-ch1': { label: 'Voltfall reader, CH1 only', load: voltfall(undefined), file: 'utf-8' },
+  'voltfall-utf16': { label: 'Voltfall reader, UTF-16 LE, CH1 + CH2', load: voltfall('CH2'), file: 'utf-16le' },
+  udsv: { label: 'uDSV, typed rows (parse only)', load: udsv, file: 'utf-8' },
+  papaparse: { label: 'papaparse, dynamicTyping (parse only)', load: papaparse, file: 'utf-8' },
+  idle: { label: 'idle: tsx + reader loaded, no file', load: idle, file: 'utf-8' },
+};
+type ContenderName = keyof typeof CONTENDERS & string;
 
 async function child(name: ContenderName, path: string): Promise<void> {
   const run = await CONTENDERS[name].load();
@@ -176,21 +190,27 @@ function versionOf(pkg: string): string {
 async function main(): Promise<void> {
   const rows = Number(process.argv[2] ?? 10_000_000);
   const runs = Number(process.argv[3] ?? 3);
-  const path = join(tmpdir(), `voltfall-bench-${rows}.csv`);
-  if (!existsSync(path)) {
-    process.stdout.write(`generating ${rows.toLocaleString('en')} rows in ${path} …\n`);
-    generate(path, rows);
+  const paths: Record<FileKind, string> = {
+    'utf-8': join(tmpdir(), `voltfall-bench-${rows}.csv`),
+    'utf-16le': join(tmpdir(), `voltfall-bench-${rows}-utf16le.csv`),
+  };
+  if (!existsSync(paths['utf-8'])) {
+    process.stdout.write(`generating ${rows.toLocaleString('en')} rows in ${paths['utf-8']} …\n`);
+    generate(paths['utf-8'], rows);
   }
-  const bytes = statSync(path).size;
-  const megabytes = bytes / 1e6;
-  for await (const chunk of createReadStream(path, { highWaterMark: 1 << 22 })) void chunk;
+  if (!existsSync(paths['utf-16le'])) {
+    process.stdout.write(`writing the same capture as UTF-16 LE in ${paths['utf-16le']} …\n`);
+    await writeUtf16(paths['utf-8'], paths['utf-16le']);
+  }
+  const megabytes = (kind: FileKind) => statSync(paths[kind]).size / 1e6;
+  for (const path of Object.values(paths)) for await (const chunk of createReadStream(path, { highWaterMark: 1 << 22 })) void chunk;
 
   const names = Object.keys(CONTENDERS) as ContenderName[];
   const results = Object.fromEntries(names.map((name) => [name, [] as RunResult[]])) as Record<ContenderName, RunResult[]>;
   const self = fileURLToPath(import.meta.url);
   for (let run = 0; run < runs; run++) {
     for (const name of names) {
-      const out = spawnSync(process.execPath, [...process.execArgv, self, '--contender', name, path], {
+      const out = spawnSync(process.execPath, [...process.execArgv, self, '--contender', name, paths[CONTENDERS[name].file]], {
         encoding: 'utf8',
         maxBuffer: 1 << 20,
       });
@@ -201,9 +221,11 @@ async function main(): Promise<void> {
 
   const line = (cells: string[]) => cells.map((c, i) => (i === 0 ? c.padEnd(40) : c.padStart(10))).join('');
   process.stdout.write(
-    `\ncapture: ${path}\n${rows.toLocaleString('en')} rows × 3 columns, ${megabytes.toFixed(1)} MB (10^6 bytes); ${runs} runs per contender, medians;` +
+    `\ncapture: ${paths['utf-8']}\n${rows.toLocaleString('en')} rows × 3 columns, ${megabytes('utf-8').toFixed(1)} MB (10^6 bytes) in UTF-8, ` +
+      `${megabytes('utf-16le').toFixed(1)} MB in UTF-16 LE; ${runs} runs per contender, medians;` +
       ` Node ${process.version}, uDSV ${versionOf('udsv')}, papaparse ${versionOf('papaparse')}\n` +
-      'Voltfall: ingest + full analysis (t0, V0, crossing, fit, trace); uDSV and papaparse: parse to numbers only.\n\n',
+      'Voltfall: ingest + full analysis (t0, V0, crossing, fit, trace); uDSV and papaparse: parse to numbers only.\n' +
+      'MB/s is of the bytes of the file each contender reads.\n\n',
   );
   process.stdout.write(`${line(['contender', 'wall s', 'MB/s', 'CPU s', 'peak RSS', 'vs uDSV'])}\n`);
   const wall = (name: ContenderName) => median(results[name].map((r) => r.seconds));
@@ -215,7 +237,7 @@ async function main(): Promise<void> {
       `${line([
         CONTENDERS[name].label,
         reads ? wall(name).toFixed(2) : '',
-        reads ? (megabytes / wall(name)).toFixed(0) : '',
+        reads ? (megabytes(CONTENDERS[name].file) / wall(name)).toFixed(0) : '',
         reads ? cpu(name).toFixed(2) : '',
         `${peak(name).toFixed(0)} MB`,
         reads ? `${(wall('udsv') / wall(name)).toFixed(2)}×` : '',
@@ -229,12 +251,18 @@ async function main(): Promise<void> {
   }
   const ratio = wall('udsv') / wall('voltfall');
   const best = wall('udsv') / Math.min(...results.voltfall.map((r) => r.seconds));
-  const rss = Math.max(peak('voltfall'), peak('voltfall-ch1'));
+  const rss = Math.max(peak('voltfall'), peak('voltfall-ch1'), peak('voltfall-utf16'));
   const expected = TAU * Math.log(V0 / 60);
+  const utf16 = wall('voltfall-utf16');
+  const sameResult = results['voltfall-utf16'].every((r) => r.summary === results.voltfall[0].summary && r.rows === results.voltfall[0].rows);
   process.stdout.write(
     `\ntruth: τ ${TAU} s, to 60 V ${expected.toPrecision(6)} s after t0 = 0\n` +
       `target ≥ 3× uDSV (CH1 + marker, all three columns parsed): ${ratio >= 3 ? 'met' : 'MISSED'} — ` +
       `${ratio.toFixed(2)}× by wall time (best run ${best.toFixed(2)}×), ${(cpu('udsv') / cpu('voltfall')).toFixed(2)}× by CPU time\n` +
+      `UTF-16 LE beside UTF-8 (same capture, CH1 + marker): ${(megabytes('utf-16le') / utf16).toFixed(0)} MB/s of UTF-16 bytes against ` +
+      `${(megabytes('utf-8') / wall('voltfall')).toFixed(0)} MB/s of UTF-8 bytes; the same capture in ${(utf16 / wall('voltfall')).toFixed(2)}× the UTF-8 wall time, ` +
+      `${(cpu('voltfall-utf16') / cpu('voltfall')).toFixed(2)}× its CPU time (${(cpu('udsv') / cpu('voltfall-utf16')).toFixed(2)}× uDSV on the UTF-8 file by CPU time); ` +
+      `same result as UTF-8: ${sameResult ? 'yes' : 'NO'}\n` +
       `target peak RSS < 128 MB: ${rss < 128 ? 'met' : 'MISSED'} — ${rss.toFixed(0)} MB, of which ${peak('idle').toFixed(0)} MB is the idle process (Node + tsx + modules)\n`,
   );
 }

@@ -17,6 +17,14 @@ export const uploadFieldsSchema = z.object({
   t0: z.preprocess((v) => (v === '' || v === undefined ? undefined : Number(v)), z.number().finite('t0 must be a number in seconds').optional()),
   /** Input resistance of the measuring chain across the capacitor, Ω: the measured τ is corrected for it. */
   probeResistance: probeResistanceFieldSchema,
+  scale: z.preprocess(
+    (v) => (v === '' || v === undefined ? undefined : Number(v)),
+    z
+      .number({ error: 'The voltage scale must be a number, e.g. 100 for probe-side volts of a 100:1 probe' })
+      .finite('The voltage scale must be a finite number')
+      .positive('The voltage scale must be greater than zero')
+      .optional(),
+  ),
 });
 
 /** Before any byte is received: the revision must be a draft the user may change. */
@@ -42,7 +50,7 @@ export async function attachEvidence(
   try {
     const parsed = uploadFieldsSchema.safeParse(fields);
     if (!parsed.success) throw validationError(parsed.error);
-    const { kind, channel, markerChannel, t0, probeResistance } = parsed.data;
+    const { kind, channel, markerChannel, t0, probeResistance, scale } = parsed.data;
     const limit = kind === 'waveform' ? ctx.config.uploadLimits.waveformBytes : ctx.config.uploadLimits.otherBytes;
     if (upload.size > limit) {
       throw new AppError(413, 'too_large', `A ${kind} file may be at most ${Math.round(limit / 1024 / 1024)} MB.`, [{ path: 'file', message: 'over the size limit' }]);
@@ -55,7 +63,7 @@ export async function attachEvidence(
     assertCanEdit(user, rev);
     const dossier = await loadDossier(ctx.db, rev.dossierId);
     let analysis: WaveformAnalysis | null = null;
-    const options = analysisOptionsSchema.parse({ safeVoltage: dossier.requirement.safeVoltage, maxTime: dossier.requirement.maxTime, channel, markerChannel, t0 });
+    const options = analysisOptionsSchema.parse({ safeVoltage: dossier.requirement.safeVoltage, maxTime: dossier.requirement.maxTime, channel, markerChannel, t0, scale });
     if (kind === 'waveform') {
       try {
         // Kept with the analysis so the measured checks can refer the capture to the unloaded circuit.

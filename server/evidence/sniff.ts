@@ -1,6 +1,8 @@
 import { open } from 'node:fs/promises';
 import { fileTypeFromFile } from 'file-type';
 import { AppError } from '../errors';
+import { TEXT_EXPORTS, WaveformError } from './waveform/errors';
+import { checkText } from './waveform/head';
 
 export type EvidenceKind = 'waveform' | 'image' | 'datasheet' | 'report' | 'other';
 
@@ -11,13 +13,21 @@ const ACCEPTED: Record<Exclude<EvidenceKind, 'other'>, { mimes: string[]; words:
   report: { mimes: ['application/pdf'], words: 'a PDF' },
 };
 
-/** True when the first bytes look like text: no NUL byte, as binary formats nearly always have one. */
-async function looksLikeText(path: string): Promise<boolean> {
+/**
+ * How the first bytes read as text: null for binary (NUL bytes, as binary formats nearly always have,
+ * outside UTF-16), else whether they carry a UTF-16 byte-order mark. Text the capture reader cannot
+ * decode still counts as text here, so that the reader's own message says why.
+ */
+async function textKind(path: string): Promise<'utf-16' | 'text' | null> {
   const handle = await open(path, 'r');
   try {
     const buffer = Buffer.alloc(64 * 1024);
     const { bytesRead } = await handle.read(buffer, 0, buffer.length, 0);
-    return !buffer.subarray(0, bytesRead).includes(0);
+    const encoding = checkText(buffer.subarray(0, bytesRead));
+    return encoding === 'utf-8' ? 'text' : 'utf-16';
+  } catch (err) {
+    if (err instanceof WaveformError) return err.code === 'NOT_TEXT' ? null : 'text';
+    throw err;
   } finally {
     await handle.close();
   }
@@ -28,12 +38,15 @@ async function looksLikeText(path: string): Promise<boolean> {
  * not match the kind it was uploaded as.
  */
 export async function sniffMediaType(path: string, kind: EvidenceKind, originalName: string): Promise<string> {
-  const detected = await fileTypeFromFile(path);
-  const mime = detected?.mime ?? ((await looksLikeText(path)) ? 'text/plain' : 'application/octet-stream');
+  const text = await textKind(path);
+  // A UTF-16 byte-order mark (FF FE) also opens an MPEG audio frame header, so text decides first.
+  const detected = text === 'utf-16' ? undefined : await fileTypeFromFile(path);
+  const mime = detected?.mime ?? (text ? 'text/plain' : 'application/octet-stream');
   if (kind === 'other') return mime;
   const rule = ACCEPTED[kind];
   if (!rule.mimes.includes(mime)) {
-    throw new AppError(422, 'wrong_content', `“${originalName}” is not ${rule.words}: its bytes look like ${mime}.`, [
+    const exportHint = kind === 'waveform' ? ` Export the capture from the instrument as ${TEXT_EXPORTS}.` : '';
+    throw new AppError(422, 'wrong_content', `“${originalName}” is not ${rule.words}: its bytes look like ${mime}.${exportHint}`, [
       { path: 'file', message: `expected ${rule.words}` },
     ]);
   }

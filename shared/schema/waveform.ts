@@ -22,6 +22,11 @@ export const analysisOptionsSchema = z.object({
   markerChannel: channelRefSchema.optional(),
   /** Disconnect instant on the capture's time axis, s; overrides the marker and the detection. */
   t0: finite('Disconnect instant').optional(),
+  /**
+   * Factor the voltage channel's values are multiplied by (after their unit), for a file holding
+   * probe-side volts: 100 for a 100:1 probe the instrument did not account for. Default 1.
+   */
+  scale: finite('Voltage scale').positive('Voltage scale must be greater than zero').optional(),
 });
 
 export const tracePointSchema = z.object({ t: z.number(), v: z.number() });
@@ -67,6 +72,24 @@ export const waveformAnalysisSchema = z.object({
    * null when not given (the measured checks then say that instrument loading was not corrected).
    */
   probeResistance: z.number().positive().nullable().optional(),
+  // The fields below are absent from analyses stored before they existed (those were UTF-8 files,
+  // positive rails, unscaled).
+  /**
+   * Sign of the rail, read from the level before the disconnect. Every voltage in this analysis (V0, the
+   * trace, offset, residual, vAtLimit) is in the rail's sense: for a negative rail, the magnitude |v|.
+   */
+  polarity: z.enum(['positive', 'negative']).optional(),
+  /** Voltage scale factor entered with the capture and applied to its values (1 when none was entered). */
+  scale: z.number().positive().optional(),
+  /** Probe setting stated in the file's metadata, as written; never applied (see `warnings`). */
+  probeRatio: z.string().nullable().optional(),
+  /** Encoding the file was decoded from (UTF-8 covers ASCII; UTF-16 needs a byte-order mark). */
+  encoding: z.enum(['utf-8', 'utf-16le', 'utf-16be']).optional(),
+  /**
+   * The remarks that need the engineer's attention before the result is trusted (a probe ratio stated
+   * in the file, an excursion of the opposite sign beyond the safe level); each is also in `notes`.
+   */
+  warnings: z.array(z.string()).optional(),
 });
 
 /** Lowest input resistance taken for a measuring instrument; below it the figure is surely a wrong unit. */

@@ -116,6 +116,76 @@ describe('evidence uploads', () => {
     expect(tmpFiles()).toEqual([]);
   });
 
+  it('when a UTF-16 capture (as Windows tools write it) is uploaded, then it is decoded and analysed like its UTF-8 twin', async () => {
+    const { engineer, id } = await draft('UTF-16 capture');
+    // τ = 1.5 s from 622 V: 60 V after 1.5·ln(622/60) = 3.508 s (V0·e^(−t/τ), common practice).
+    const utf16 = Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(capture(622, 1.5, 8), 'utf16le')]);
+    const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', utf16, 'bench-utf16.csv');
+    expect(res.status).toBe(201);
+    expect(res.body.mediaType).toBe('text/csv');
+    expect(res.body.analysis.encoding).toBe('utf-16le');
+    expect(Math.abs(res.body.analysis.timeToSafe - 1.5 * Math.log(622 / 60))).toBeLessThan(0.01 * 3.508);
+    expect(Math.abs(res.body.analysis.tau - 1.5)).toBeLessThan(0.015);
+    const twin = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(622, 1.5, 8)), 'bench-utf8.csv');
+    expect(twin.body.analysis.timeToSafe).toBe(res.body.analysis.timeToSafe);
+    const file = await engineer.get(`/api/evidence/${res.body.id}/file`).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (c: Buffer) => chunks.push(c));
+      r.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(Buffer.compare(file.body as Buffer, utf16)).toBe(0);
+  });
+
+  it('when a binary export is uploaded as a capture, then 422 on the file field names the text formats to export instead', async () => {
+    const { engineer, id } = await draft('Binary exports');
+    const before = evidenceFiles().length;
+    const record = Buffer.from(new Float32Array(4096).map((_, i) => 400 * Math.exp(-(i + 1) / 900) + (i % 7) * 0.01).buffer);
+    const cases: Array<[string, Buffer]> = [
+      // A header with NUL padding, then float samples: what a binary scope record looks like.
+      ['scope.bin', Buffer.concat([Buffer.from('WFM1\0\0\0\0', 'latin1'), record])],
+      // The same record behind a UTF-16 byte-order mark: the mark alone does not make it text.
+      ['marked.csv', Buffer.concat([Buffer.from([0xff, 0xfe]), record])],
+    ];
+    for (const [name, bytes] of cases) {
+      const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', bytes, name);
+      expect(res.status, name).toBe(422);
+      expect(res.body.error.code, name).toBe('wrong_content');
+      expect(res.body.error.message, name).toMatch(/Export the capture from the instrument as CSV \(comma or semicolon separated\), TSV \(tab separated\) or TXT/);
+      expect(res.body.error.fields.map((f: { path: string }) => f.path), name).toEqual(['file']);
+    }
+    expect((await engineer.get(`/api/revisions/${id}`)).body.evidence).toHaveLength(0);
+    expect(evidenceFiles().length).toBe(before);
+    expect(tmpFiles()).toEqual([]);
+  });
+
+  it('when a capture holds probe-side volts, then the voltage scale entered with it is applied and recorded', async () => {
+    const { engineer, id } = await draft('Scaled capture');
+    // 6.22 V in the file behind a 100:1 probe the instrument did not account for: 622 V at the bus.
+    const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').field('scale', '100').attach('file', Buffer.from(capture(6.22, 1.5, 8)), 'probe-side.csv');
+    expect(res.status).toBe(201);
+    expect(res.body.analysis.scale).toBe(100);
+    expect(Math.abs(res.body.analysis.v0 - 622)).toBeLessThan(6.22);
+    expect(Math.abs(res.body.analysis.timeToSafe - 1.5 * Math.log(622 / 60))).toBeLessThan(0.01 * 3.508);
+    for (const scale of ['abc', '0', '-10']) {
+      const bad = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').field('scale', scale).attach('file', Buffer.from(capture(6.22, 1.5, 8)), 'x.csv');
+      expect(bad.status, scale).toBe(400);
+      expect(bad.body.error.fields.map((f: { path: string }) => f.path), scale).toEqual(['scale']);
+    }
+  });
+
+  it('when a negative-rail capture is slower than the limit, then the measured check fails instead of reading safe at once', async () => {
+    const { engineer, id } = await draft('Negative rail');
+    // −622 V with τ = 3 s: |v| reaches 60 V after 3·ln(622/60) = 7.02 s, beyond the demo's time limit.
+    const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(-622, 3, 9)), 'dc-minus.csv');
+    expect(res.status).toBe(201);
+    expect(res.body.analysis.polarity).toBe('negative');
+    expect(Math.abs(res.body.analysis.timeToSafe - 3 * Math.log(622 / 60))).toBeLessThan(0.01 * 7.02);
+    const rev = (await engineer.get(`/api/revisions/${id}`)).body;
+    const measured = rev.results.checks.find((c: { id: string }) => c.id.startsWith('measured-discharge'));
+    expect(measured.pass).toBe(false);
+    expect(rev.results.verdict).toBe('fails');
+  });
+
   it('when a file is over its kind\'s limit, then 413 and nothing is kept', async () => {
     const { engineer, id } = await draft('Too big');
     const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'other').attach('file', Buffer.alloc(700 * 1024, 65), 'big.txt');

@@ -3,6 +3,7 @@
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import fc from 'fast-check';
 import { afterAll, describe, expect, test } from 'vitest';
 import {
   WaveformError,
@@ -11,7 +12,7 @@ import {
   outlineCaptureFile,
   type WaveformErrorCode,
 } from '../../server/evidence/waveform/reader';
-import { captureText, random, sampleDecay, timeToLevel, type DecaySpec } from './capture-generator';
+import { captureText, encodeText, random, sampleDecay, timeToLevel, type DecaySpec } from './capture-generator';
 
 const dir = mkdtempSync(join(tmpdir(), 'vf-waveform-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -57,16 +58,54 @@ describe('files that are not captures', () => {
     await expectCode(analyseCaptureFile(file('blank.csv', '\n\r\n  \n'), options), 'EMPTY', /blank/);
   });
 
-  test('binary bytes renamed .csv (a PNG header followed by noise)', async () => {
+  test('binary bytes renamed .csv (a PNG header followed by noise), named with the text formats to export instead', async () => {
     const rand = random(22);
     const bytes = new Uint8Array(4096).map(() => Math.floor(rand() * 256));
     bytes.set([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13]);
-    await expectCode(analyseCaptureFile(file('photo.csv', bytes), options), 'NOT_TEXT', /binary/);
+    await expectCode(analyseCaptureFile(file('photo.csv', bytes), options), 'NOT_TEXT', /binary data\. Export the capture from the instrument as CSV .*, TSV .* or TXT/);
   });
 
-  test('UTF-16 text is refused with a hint to export plain text', async () => {
-    const utf16 = Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(good(), 'utf16le')]);
-    await expectCode(analyseCaptureFile(file('utf16.csv', utf16), options), 'UNSUPPORTED_ENCODING', /plain text/);
+  test('a binary record behind a UTF-16 byte-order mark is still binary', async () => {
+    const noise = random(23);
+    const samples = new Float32Array(2048).map((_, i) => 400 * Math.exp(-i / 500) + noise());
+    const bytes = Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(samples.buffer)]);
+    await expectCode(analyseCaptureFile(file('record.bin', bytes), options), 'NOT_TEXT', /CSV .*TSV .*TXT/);
+  });
+
+  test('UTF-16 without a byte-order mark, and UTF-32, are refused naming the encodings that are read', async () => {
+    await expectCode(analyseCaptureFile(file('utf16.csv', Buffer.from(good(), 'utf16le')), options), 'UNSUPPORTED_ENCODING', /without a byte-order mark.*UTF-16 with a byte-order mark/);
+    const utf32 = Buffer.alloc(4 * 200);
+    utf32.set([0xff, 0xfe, 0, 0]);
+    [...good().slice(0, 199)].forEach((c, i) => utf32.writeUInt32LE(c.charCodeAt(0), 4 + 4 * i));
+    await expectCode(analyseCaptureFile(file('utf32.csv', utf32), options), 'UNSUPPORTED_ENCODING', /UTF-32/);
+  });
+
+  test('a UTF-16 file cut in the middle of a code unit loses only its last line', async () => {
+    const bytes = encodeText(good(), 'utf-16le');
+    // 13 bytes: the line end, five characters and half of the sixth, as the UTF-8 case above loses 6 bytes.
+    const result = await analyseCaptureFile(file('cut16.csv', bytes.subarray(0, bytes.length - 13)), options);
+    expect(result.skipped).toBe(1);
+    expect(result.samples).toBe(spec.samples - 1);
+  });
+
+  test('property (fast-check, seeded): any bytes, behind any byte-order mark, give an analysis or a WaveformError', async () => {
+    const marks = [[], [0xef, 0xbb, 0xbf], [0xff, 0xfe], [0xfe, 0xff]];
+    const body = fc.oneof(
+      fc.uint8Array({ maxLength: 600 }),
+      fc.array(fc.constantFrom('0', '1', '5', '.', ',', ';', '\t', '\n', '\r', '-', 'e', 'E', ' ', '"', '#', ':', '=', 'V', 's', 'µ'), { maxLength: 600 }).map((cs) => cs.join('')),
+    );
+    await fc.assert(
+      fc.asyncProperty(fc.constantFrom(...marks), body, fc.boolean(), async (mark, content, wide) => {
+        const text = typeof content === 'string' ? Buffer.from(content, wide ? 'utf16le' : 'utf8') : Buffer.from(content);
+        const bytes = Buffer.concat([Buffer.from(mark), text]);
+        const outcome = await analyseCaptureText(bytes, options).then(
+          () => null,
+          (e: unknown) => e,
+        );
+        if (outcome !== null) expect(outcome).toBeInstanceOf(WaveformError);
+      }),
+      { seed: 20250519, numRuns: 400 },
+    );
   });
 
   test('a CSV with no numeric columns', async () => {

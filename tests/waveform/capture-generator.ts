@@ -141,3 +141,19 @@ export function captureText(columns: readonly Column[], options: CaptureText = {
   const body = lines.join(eol) + (options.trailingNewline === false ? '' : eol);
   return (options.bom ? '\ufeff' : '') + body;
 }
+
+export type Encoding = 'utf-8' | 'utf-8-bom' | 'utf-16le' | 'utf-16be';
+
+/** The bytes of `text` as a file in `encoding`, byte-order mark included where the encoding has one (Node's own encoders). */
+export function encodeText(text: string, encoding: Encoding): Buffer {
+  switch (encoding) {
+    case 'utf-8':
+      return Buffer.from(text, 'utf8');
+    case 'utf-8-bom':
+      return Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(text, 'utf8')]);
+    case 'utf-16le':
+      return Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(text, 'utf16le')]);
+    case 'utf-16be':
+      return Buffer.concat([Buffer.from([0xfe, 0xff]), Buffer.from(text, 'utf16le').swap16()]);
+  }
+}

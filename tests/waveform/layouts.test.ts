@@ -3,28 +3,8 @@
 // parameters within 1 %.
 import { describe, expect, test } from 'vitest';
 import { analyseCaptureText } from '../../server/evidence/waveform/reader';
-import { waveformAnalysisSchema, type WaveformAnalysis } from '../../shared/schema/waveform';
-import { captureText, random, sampleDecay, timeToLevel, voltageAt, type DecaySpec } from './capture-generator';
-
-const SAFE = 60;
-
-function expectWithin(actual: number | null | undefined, expected: number, fraction: number): void {
-  expect(actual).not.toBeNull();
-  expect(actual).toBeDefined();
-  expect(Math.abs((actual as number) - expected)).toBeLessThanOrEqual(fraction * Math.abs(expected));
-}
-
-/** τ and crossing within 1 % of the generator's truth; V0 within 1 %; t0 within 1 % of τ. */
-function expectDecay(result: WaveformAnalysis, spec: DecaySpec): void {
-  expect(waveformAnalysisSchema.parse(result)).toEqual(result);
-  expect(result.fit).toBe('good');
-  expectWithin(result.tau, spec.tau ?? NaN, 0.01);
-  expectWithin(result.timeToSafe, timeToLevel(spec, SAFE), 0.01);
-  expectWithin(result.v0, spec.v0 + (spec.offset ?? 0), 0.01);
-  expect(Math.abs(result.t0 - spec.t0)).toBeLessThanOrEqual(0.01 * (spec.tau ?? NaN));
-  expect(result.trace.length).toBeGreaterThan(100);
-  expect(result.trace.length).toBeLessThanOrEqual(2000);
-}
+import { captureText, random, sampleDecay, voltageAt, type DecaySpec } from './capture-generator';
+import { expectDecay, expectWithin, SAFE } from './expect-decay';
 
 const base: DecaySpec = {
   v0: 400,

@@ -1,9 +1,10 @@
 // Property: whatever layout a capture is written in (separator, decimal mark, quotes, line ends,
-// metadata, number format), the numbers the reader returns are exactly the numbers written, as the
-// JavaScript engine's own Number() reads the same text.
+// metadata, number format, encoding), the numbers the reader returns are exactly the numbers written, as
+// the JavaScript engine's own Number() reads the same text.
 import fc from 'fast-check';
 import { describe, expect, test } from 'vitest';
 import { readCaptureText } from '../../server/evidence/waveform/reader';
+import { encodeText, type Encoding } from './capture-generator';
 
 type Format = { kind: 'plain' } | { kind: 'exponential'; digits: number } | { kind: 'fixed'; digits: number };
 
@@ -37,7 +38,7 @@ const captureArb = fc.integer({ min: 1, max: 4 }).chain((channels) =>
     eol: fc.constantFrom('\n', '\r\n'),
     trailingNewline: fc.boolean(),
     metadata: fc.array(
-      fc.constantFrom('Instrument,bench scope', 'Serial: 20931', 'Operator=lab', 'Coupling;DC', 'Trigger\tfalling edge'),
+      fc.constantFrom('Instrument,bench scope', 'Serial: 20931', 'Operator=lab', 'Coupling;DC', 'Trigger\tfalling edge', '# Probe: 10X', '% Zone = Prüfplatz µ3'),
       { maxLength: 4 },
     ),
     headers: fc.array(fc.constantFrom('CH', 'U', 'Probe '), { minLength: channels, maxLength: channels }),
@@ -47,6 +48,7 @@ const captureArb = fc.integer({ min: 1, max: 4 }).chain((channels) =>
     start: fc.double({ min: -1000, max: 1000, noNaN: true }),
     steps: fc.array(fc.double({ min: 1e-6, max: 10, noNaN: true }), { minLength: 1, maxLength: 60 }),
     values: fc.array(fc.array(value, { minLength: channels, maxLength: channels }), { minLength: 60, maxLength: 60 }),
+    encoding: fc.constantFrom<Encoding>('utf-8', 'utf-8-bom', 'utf-16le', 'utf-16be'),
   }),
 );
 
@@ -79,7 +81,7 @@ describe('reader round trip (fast-check, seeded)', () => {
           lines.push(cells.join(c.sep));
         }
         const text = lines.join(c.eol) + (c.trailingNewline ? c.eol : '');
-        const table = await readCaptureText(text);
+        const table = await readCaptureText(encodeText(text, c.encoding));
         // A last line without a line end may be judged cut off; then it, and only it, is left out.
         const kept = table.truncatedLastLine ? rows - 1 : rows;
         if (table.truncatedLastLine) expect(c.trailingNewline).toBe(false);

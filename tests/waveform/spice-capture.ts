@@ -5,6 +5,7 @@ import { simulate } from '../support/ngspice';
 import { captureText } from './capture-generator';
 
 export interface BleederCircuit {
+  /** Bus voltage before the relay opens, V; negative for a negative rail. */
   v0: number;
   capacitance: number;
   resistance: number;
@@ -19,7 +20,7 @@ export interface BleederCircuit {
 
 export interface SpiceCapture {
   text: string;
-  /** ngspice's own measurement of the crossing of `level`, s after the relay opened. */
+  /** ngspice's own measurement of |v| reaching `level`, s after the relay opened. */
   measuredCrossing: number;
 }
 
@@ -38,7 +39,10 @@ export async function spiceCapture(circuit: BleederCircuit, level: number): Prom
   ].join('\n');
   const run = await simulate(deck, {
     vectors: ['v(ctl)', 'v(bus)'],
-    measures: [`meas tran tcross WHEN v(bus)=${level} FALL=1`, 'meas tran topen WHEN v(ctl)=2.5 FALL=1'],
+    measures: [
+      v0 < 0 ? `meas tran tcross WHEN v(bus)=${-level} RISE=1` : `meas tran tcross WHEN v(bus)=${level} FALL=1`,
+      'meas tran topen WHEN v(ctl)=2.5 FALL=1',
+    ],
   });
   const text = captureText(
     [

@@ -1,3 +1,7 @@
+/** The text exports the reader takes, named in every refusal of a file that is not one of them. */
+export const TEXT_EXPORTS =
+  'CSV (comma or semicolon separated), TSV (tab separated) or TXT, encoded as ASCII, UTF-8 or UTF-16 with a byte-order mark';
+
 /** Why a capture could not be read. Every code is a problem with the file itself (the API answers 422). */
 export type WaveformErrorCode =
   | 'EMPTY'

@@ -2,10 +2,12 @@
 // metadata ends and the data begins, the header row and its unit hints, which column is time (or the
 // start + increment that replaces it) and which columns are channels. Only the head is looked at as
 // text; the data rows are left to the byte scanner.
+import { cellKind, splitCells, type Cell } from './cells';
 import { WaveformError } from './errors';
-import { OVERFLOW_MARKER } from './scan';
+import { readHead, type LineInfo, type TextEncoding } from './head';
+import { COMMENT_MARK, isMetadataLine, readMetadata, type Metadata } from './metadata';
 import type { ByteSource } from './source';
-import { parseUnit, readHeaderCell, readQuantity, type HeaderCell, type Unit } from './units';
+import { readHeaderCell, type HeaderCell } from './units';
 
 export interface ColumnInfo {
   index: number;
@@ -17,6 +19,8 @@ export interface ColumnInfo {
 }
 
 export interface CaptureLayout {
+  /** Encoding named by the byte-order mark (UTF-8 without one); offsets below are in its scan stream (encoding.ts). */
+  encoding: TextEncoding;
   sep: number;
   eol: number;
   decimalComma: boolean;
@@ -44,85 +48,12 @@ export interface CaptureLayout {
   notes: string[];
 }
 
-const HEAD_BYTES = 1 << 20;
-const MAX_LINES = 2000;
 const RUN_LENGTH = 32;
-
-const TAB = 9;
-const LF = 10;
-const CR = 13;
-const SEPARATORS = [TAB, 59, 44] as const; // tab, ';', ','
-
-const NUMBER_DOT = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
-const NUMBER_COMMA = /^[+-]?(?:\d+,?\d*|,\d+)(?:[eE][+-]?\d+)?$/;
-const MARKER =
-  /^(?:|[+-]?nan|[+-]?inf(?:inity)?|n\/?a|null|none|-+|\*+|\?+|over(?:flow|range)?|under(?:flow|range)?|ovl|clip(?:ped)?|invalid|err(?:or)?)$/i;
+const SEPARATORS = [9, 59, 44] as const; // tab, ';', ','
 
 const TIME_NAME =
   /^(?:t|x|time|times|timestamp|time ?stamp|sec|secs|seconds?|elapsed(?: time)?|relative time|zeit|temps|tiempo|tempo)$/i;
 const INDEX_NAME = /^(?:index|idx|no\.?|nr\.?|n|#|sample|samples|sample no\.?|point|points|pt|row)$/i;
-const INCREMENT_KEY =
-  /^(?:(?:sample|sampling|time|x|horizontal|point)\s*)?(?:interval|increment|step|spacing)$|^(?:sample|sampling)\s*(?:period|time)$|^(?:dt|delta\s*t|(?:time|seconds)\s*per\s*(?:point|sample))$/i;
-const RATE_KEY = /^(?:sample|sampling)\s*(?:rate|frequency)$|^samples?\s*per\s*second$/i;
-const START_KEY =
-  /^(?:start|start\s*time|time\s*start|x\s*start|t\s*start|start\s*x|x\s*origin|time\s*origin|time\s*offset|horizontal\s*offset|x\s*offset|first\s*(?:time|point|sample)(?:\s*time)?)$/i;
-const PROBE_KEY = /probe|atten/i;
-const TIME_UNIT_KEY = /^(?:horizontal|time|x)\s*units?$/i;
-const VOLT_UNIT_KEY = /^(?:vertical|voltage|y|volt)\s*units?$/i;
-
-interface Cell {
-  text: string;
-  quoted: boolean;
-}
-
-type CellKind = 'number' | 'marker' | 'text';
-
-interface LineInfo {
-  /** Byte offset of the line in the file. */
-  offset: number;
-  text: string;
-}
-
-function splitCells(line: string, sep: string): Cell[] {
-  const cells: Cell[] = [];
-  let i = 0;
-  for (;;) {
-    while (line[i] === ' ' || (line[i] === '\t' && sep !== '\t')) i++;
-    if (line[i] === '"') {
-      let text = '';
-      i++;
-      while (i < line.length) {
-        if (line[i] === '"') {
-          if (line[i + 1] === '"') {
-            text += '"';
-            i += 2;
-            continue;
-          }
-          i++;
-          break;
-        }
-        text += line[i++];
-      }
-      const next = line.indexOf(sep, i);
-      cells.push({ text: text.trim(), quoted: true });
-      if (next < 0) return cells;
-      i = next + 1;
-    } else {
-      const next = line.indexOf(sep, i);
-      cells.push({ text: (next < 0 ? line.slice(i) : line.slice(i, next)).trim(), quoted: false });
-      if (next < 0) return cells;
-      i = next + 1;
-    }
-  }
-}
-
-function cellKind(cell: Cell, commaDecimal: boolean): CellKind {
-  const { text } = cell;
-  if (NUMBER_DOT.test(text) || ((commaDecimal || cell.quoted) && NUMBER_COMMA.test(text))) {
-    return Math.abs(Number(text.replace(',', '.'))) >= OVERFLOW_MARKER ? 'marker' : 'number';
-  }
-  return MARKER.test(text) ? 'marker' : 'text';
-}
 
 interface Candidate {
   sep: number;
@@ -132,6 +63,16 @@ interface Candidate {
   decimalComma: boolean;
   header: number | null;
   headerMatches: boolean;
+}
+
+/** A number converted from other units, without the last-digit noise of the conversion (−50 ms is −0.05 s). */
+function plain(x: number): string {
+  return Number(x.toPrecision(12)).toString();
+}
+
+/** Cells of a header row; a comment mark before it ("# Time (s),CH1 (V)") is not part of the first name. */
+function headerRow(line: LineInfo, sep: string): Cell[] {
+  return splitCells(line.text.replace(COMMENT_MARK, ''), sep);
 }
 
 /**
@@ -148,6 +89,8 @@ function findRun(lines: LineInfo[], sep: number, allLines: boolean): Candidate |
   let fields = 0;
   let length = 0;
   let decimalComma = false;
+  /** The run's rows end in an empty cell (a separator after the last value). */
+  let trailingEmpty = false;
   const accept = (): Candidate => {
     let header: number | null = null;
     for (let h = start - 1; h >= 0; h--) {
@@ -156,13 +99,17 @@ function findRun(lines: LineInfo[], sep: number, allLines: boolean): Candidate |
         break;
       }
     }
-    const headerCells = header === null ? [] : splitCells(lines[header].text, sepText);
+    const headerCells = header === null ? [] : headerRow(lines[header], sepText);
     // A trailing separator on the header or on the data rows leaves one empty cell more on one side.
+    // A single name over two values without one is a one-column file under another separator: "402,5"
+    // under "U (V)" is one value with a decimal comma, not two columns.
     const count = headerCells.length - (headerCells[headerCells.length - 1]?.text === '' ? 1 : 0);
+    // A metadata line right above the data ("# increment: 1E-04 s" over one column of values) is no header.
     const headerMatches =
       header !== null &&
-      (count === fields || count === fields - 1) &&
-      headerCells.every((c) => cellKind(c, commaDecimal) !== 'number');
+      (count === fields || (count === fields - 1 && (trailingEmpty || count > 1))) &&
+      headerCells.every((c) => cellKind(c, commaDecimal) !== 'number') &&
+      !isMetadataLine(lines[header].text, sepText, commaDecimal);
     return { sep, start, length, fields, decimalComma, header, headerMatches };
   };
   for (let i = 0; i <= last; i++) {
@@ -191,6 +138,7 @@ function findRun(lines: LineInfo[], sep: number, allLines: boolean): Candidate |
       fields = cells.length;
       length = 1;
       decimalComma = usesComma;
+      trailingEmpty = cells[cells.length - 1].text === '';
     } else {
       start = -1;
       length = 0;
@@ -210,143 +158,8 @@ function score(c: Candidate, lines: LineInfo[]): number {
   return (c.headerMatches ? 4 : 0) + (c.fields >= 2 ? 2 : 0) + uses / (uses + 1);
 }
 
-function checkText(bytes: Uint8Array, from: number): void {
-  const probe = bytes.subarray(from, Math.min(bytes.length, from + 65536));
-  let nul = 0;
-  let control = 0;
-  let evenNul = 0;
-  for (let i = 0; i < probe.length; i++) {
-    const b = probe[i];
-    if (b === 0) {
-      nul++;
-      if (i % 2 === 0) evenNul++;
-    } else if (b < 32 && b !== TAB && b !== LF && b !== CR && b !== 12 && b !== 26) control++;
-  }
-  if (nul > probe.length / 4 && (evenNul === 0 || evenNul === nul)) {
-    throw new WaveformError(
-      'UNSUPPORTED_ENCODING',
-      'The file looks like UTF-16 text. Export the capture as plain text (ASCII or UTF-8).',
-    );
-  }
-  if (nul > 0 || control > probe.length / 100) {
-    throw new WaveformError(
-      'NOT_TEXT',
-      'The file is not a text export: it holds binary data. Export the capture as CSV or text from the instrument.',
-    );
-  }
-}
-
-/** Lines of the head; `all` tells whether they cover the whole file. */
-function splitLines(bytes: Uint8Array, from: number, eol: number, complete: boolean): { lines: LineInfo[]; all: boolean } {
-  const utf8 = new TextDecoder('utf-8', { fatal: true });
-  const latin1 = new TextDecoder('latin1');
-  const decode = (part: Uint8Array): string => {
-    try {
-      return utf8.decode(part);
-    } catch {
-      return latin1.decode(part);
-    }
-  };
-  const lines: LineInfo[] = [];
-  let start = from;
-  while (start < bytes.length && lines.length < MAX_LINES) {
-    let end = bytes.indexOf(eol, start);
-    if (end < 0) {
-      if (!complete) break; // the head stops inside this line
-      end = bytes.length;
-    }
-    let textEnd = end;
-    if (eol === LF && textEnd > start && bytes[textEnd - 1] === CR) textEnd--;
-    lines.push({ offset: start, text: decode(bytes.subarray(start, textEnd)) });
-    start = end + 1;
-  }
-  return { lines, all: complete && start >= bytes.length };
-}
-
-interface Metadata {
-  increment: number | null;
-  start: number | null;
-  probe: string | null;
-  timeUnit: Unit | null;
-  voltUnit: Unit | null;
-}
-
-function readMetadata(lines: LineInfo[], sep: string, decimalComma: boolean): Metadata {
-  const meta: Metadata = { increment: null, start: null, probe: null, timeUnit: null, voltUnit: null };
-  for (const line of lines) {
-    let cells = splitCells(line.text, sep)
-      .map((c) => c.text)
-      .filter((t) => t !== '');
-    if (cells.length === 1) {
-      // "Start: -0.1", "dt=1e-5", or a key/value line written with another separator than the data's.
-      const split = /^([^:=,;\t]+?)\s*[:=,;\t]\s*(.*)$/.exec(cells[0]);
-      cells = split ? [split[1], split[2]] : cells;
-    }
-    if (cells.length < 2) continue;
-    const key = readHeaderCell(cells[0].replace(/[:=]\s*$/, ''));
-    const name = (key.base || key.label).replace(/[\s_.]+/g, ' ').trim();
-    const value = cells[1];
-    if (PROBE_KEY.test(name)) {
-      meta.probe ??= value;
-      continue;
-    }
-    if (TIME_UNIT_KEY.test(name)) {
-      const unit = parseUnit(value);
-      if (unit?.kind === 'time') meta.timeUnit = unit;
-      continue;
-    }
-    if (VOLT_UNIT_KEY.test(name)) {
-      const unit = parseUnit(value);
-      if (unit?.kind === 'voltage') meta.voltUnit = unit;
-      continue;
-    }
-    const isIncrement = INCREMENT_KEY.test(name);
-    const isRate = RATE_KEY.test(name);
-    const isStart = START_KEY.test(name);
-    if (!isIncrement && !isRate && !isStart) continue;
-    const quantity = readQuantity(value, decimalComma);
-    if (!quantity) continue;
-    const unit = quantity.unit ?? key.unit;
-    if (isRate) {
-      if ((unit === null || unit.kind === 'frequency') && quantity.value > 0) {
-        meta.increment ??= 1 / (quantity.value * (unit?.scale ?? 1));
-      }
-    } else if (unit === null || unit.kind === 'time') {
-      const seconds = quantity.value * (unit?.scale ?? 1);
-      if (isIncrement && seconds > 0) meta.increment = seconds;
-      if (isStart) meta.start ??= seconds;
-    }
-  }
-  return meta;
-}
-
-/** Reads the layout from the head of `source`. */
-export async function readLayout(source: ByteSource): Promise<CaptureLayout> {
-  const length = Math.min(source.size, HEAD_BYTES);
-  const head = new Uint8Array(length);
-  let got = 0;
-  while (got < length) {
-    const n = await source.read(head, got, length - got, got);
-    if (n === 0) break;
-    got += n;
-  }
-  return sniffLayout(head.subarray(0, got), got >= source.size);
-}
-
-function sniffLayout(bytes: Uint8Array, complete: boolean): CaptureLayout {
-  if (bytes.length === 0) throw new WaveformError('EMPTY', 'The file is empty.');
-  if ((bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff)) {
-    throw new WaveformError(
-      'UNSUPPORTED_ENCODING',
-      'The file is UTF-16 text. Export the capture as plain text (ASCII or UTF-8).',
-    );
-  }
-  const from = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf ? 3 : 0;
-  checkText(bytes, from);
-  const eol = bytes.indexOf(LF, from) >= 0 || bytes.indexOf(CR, from) < 0 ? LF : CR;
-  const { lines, all } = splitLines(bytes, from, eol, complete);
-  if (lines.every((l) => !l.text.trim())) throw new WaveformError('EMPTY', 'The file holds no text, only blank lines.');
-
+/** The run of data rows the layout is built on: the best-scoring separator's. */
+function pickRun(lines: LineInfo[], all: boolean): Candidate {
   const candidates = SEPARATORS.map((sep) => findRun(lines, sep, all)).filter((c): c is Candidate => c !== null);
   if (candidates.length === 0) {
     throw new WaveformError(
@@ -354,58 +167,57 @@ function sniffLayout(bytes: Uint8Array, complete: boolean): CaptureLayout {
       'No rows of numbers were found: the file has no numeric columns separated by commas, semicolons or tabs.',
     );
   }
-  const best = candidates
+  return candidates
     .map((candidate) => ({ candidate, score: score(candidate, lines) }))
     .reduce((a, b) => (b.score > a.score || (b.score === a.score && b.candidate.start < a.candidate.start) ? b : a)).candidate;
-  const sep = String.fromCharCode(best.sep);
-  const commaDecimal = best.sep !== 44;
-  const notes: string[] = [];
+}
 
-  // Header row, possibly with a row of units right under the names ("Time,CH1" then "s,V").
-  let headerCells: HeaderCell[] | null = null;
-  let metadataEnd = best.start;
-  if (best.header !== null && best.headerMatches) {
-    const cells = splitCells(lines[best.header].text, sep).map((c) => readHeaderCell(c.text));
-    metadataEnd = best.header;
-    const allUnits = cells.every((c) => c.unit !== null && c.base === '');
-    let above: number | null = null;
-    for (let h = best.header - 1; h >= 0; h--) {
-      if (lines[h].text.trim()) {
-        above = h;
-        break;
-      }
-    }
-    const names = above === null ? null : splitCells(lines[above].text, sep);
-    if (allUnits && names && names.length === cells.length && names.every((c) => cellKind(c, commaDecimal) === 'text')) {
-      headerCells = names.map((name, i) => ({
-        label: `${name.text} (${cells[i].unit?.text ?? ''})`,
-        base: readHeaderCell(name.text).base,
-        unit: cells[i].unit,
-        unknownUnit: null,
-      }));
-      metadataEnd = above ?? metadataEnd;
-    } else {
-      headerCells = cells;
+/**
+ * The header row, possibly with a row of units right under the names ("Time,CH1" then "s,V"), and the
+ * line where the metadata above it ends.
+ */
+function readHeader(lines: LineInfo[], run: Candidate): { cells: HeaderCell[] | null; metadataEnd: number } {
+  if (run.header === null || !run.headerMatches) return { cells: null, metadataEnd: run.start };
+  const sep = String.fromCharCode(run.sep);
+  const cells = headerRow(lines[run.header], sep).map((c) => readHeaderCell(c.text));
+  const allUnits = cells.every((c) => c.unit !== null && c.base === '');
+  let above: number | null = null;
+  for (let h = run.header - 1; h >= 0; h--) {
+    if (lines[h].text.trim()) {
+      above = h;
+      break;
     }
   }
-  const meta = readMetadata(lines.slice(0, metadataEnd), sep, best.decimalComma);
+  const names = above === null ? null : headerRow(lines[above], sep);
+  if (above !== null && allUnits && names && names.length === cells.length && names.every((c) => cellKind(c, run.sep !== 44) === 'text')) {
+    const named = names.map((name, i) => ({
+      label: `${name.text} (${cells[i].unit?.text ?? ''})`,
+      base: readHeaderCell(name.text).base,
+      unit: cells[i].unit,
+      unknownUnit: null,
+    }));
+    return { cells: named, metadataEnd: above };
+  }
+  return { cells, metadataEnd: run.header };
+}
 
-  // Which columns hold numbers, judged on the rows read.
-  const runLines = lines.slice(best.start, best.start + best.length + RUN_LENGTH);
-  const numeric = new Array<boolean>(best.fields).fill(false);
+/** Every column with its header, and whether the rows read hold numbers in it; the first column's numbers. */
+function readColumns(lines: LineInfo[], run: Candidate, headerCells: HeaderCell[] | null): { columns: ColumnInfo[]; firstColumn: number[] } {
+  const sep = String.fromCharCode(run.sep);
+  const commaDecimal = run.sep !== 44;
+  const numeric = new Array<boolean>(run.fields).fill(false);
   const firstColumn: number[] = [];
-  for (const line of runLines) {
+  for (const line of lines.slice(run.start, run.start + run.length + RUN_LENGTH)) {
     if (!line.text.trim()) continue;
     const cells = splitCells(line.text, sep);
-    if (cells.length !== best.fields) continue;
+    if (cells.length !== run.fields) continue;
     cells.forEach((cell, i) => {
       if (cellKind(cell, commaDecimal) === 'number') numeric[i] = true;
     });
     if (cellKind(cells[0], commaDecimal) === 'number') firstColumn.push(Number(cells[0].text.replace(',', '.')));
   }
-
   const seen = new Map<string, number>();
-  const columns: ColumnInfo[] = numeric.map((isNumeric, index) => {
+  const columns = numeric.map((isNumeric, index) => {
     const header = headerCells?.[index] ?? null;
     let label = header?.label || `column ${index + 1}`;
     const count = seen.get(label) ?? 0;
@@ -413,48 +225,59 @@ function sniffLayout(bytes: Uint8Array, complete: boolean): CaptureLayout {
     if (count > 0) label = `${label} (${count + 1})`;
     return { index, label, header, numeric: isNumeric };
   });
+  return { columns, firstColumn };
+}
 
-  // A running sample number ("Index", "No.") is neither time nor a channel.
-  const isIndex = (c: ColumnInfo) => c.header !== null && INDEX_NAME.test(c.header.base);
-  // Time: a column named or unit-tagged as time; else the metadata's start + increment; else a first
-  // column that only ever increases.
+/** A running sample number ("Index", "No.") is neither time nor a channel. */
+const isIndex = (c: ColumnInfo) => c.header !== null && INDEX_NAME.test(c.header.base);
+
+/**
+ * Time: a column named or unit-tagged as time; else the metadata's start + increment; else a first
+ * column that only ever increases.
+ */
+function findTimeBase(columns: ColumnInfo[], firstColumn: number[], meta: Metadata, notes: string[]): { timeColumn: number | null; timeScale: number } {
   const timeish = columns.find((c) => c.header && (c.header.unit?.kind === 'time' || TIME_NAME.test(c.header.base)));
-  let timeColumn: number | null = null;
-  let timeScale = 1;
   if (timeish && timeish.numeric) {
-    timeColumn = timeish.index;
-    timeScale = timeish.header?.unit?.kind === 'time' ? timeish.header.unit.scale : (meta.timeUnit?.scale ?? 1);
-  } else if (meta.increment !== null) {
+    return { timeColumn: timeish.index, timeScale: timeish.header?.unit?.kind === 'time' ? timeish.header.unit.scale : (meta.timeUnit?.scale ?? 1) };
+  }
+  if (meta.increment !== null) {
     if (timeish) notes.push(`Column "${timeish.label}" holds no numbers; the sample interval from the metadata is used instead.`);
-  } else if (timeish) {
+    notes.push(
+      `No time column: time is taken from the metadata, start ${plain(meta.start ?? 0)} s and sample interval ${plain(meta.increment)} s.`,
+    );
+    return { timeColumn: null, timeScale: 1 };
+  }
+  if (timeish) {
     throw new WaveformError(
       'NO_TIME_BASE',
       `The time column "${timeish.label}" does not hold numbers (clock times are not supported) and the metadata gives no sample interval.`,
     );
-  } else if (
-    columns.length >= 2 &&
-    columns[0].numeric &&
-    !isIndex(columns[0]) &&
+  }
+  const increasing =
     firstColumn.length >= 2 &&
     firstColumn.every((t, i) => i === 0 || t >= firstColumn[i - 1]) &&
-    firstColumn[firstColumn.length - 1] > firstColumn[0]
-  ) {
-    timeColumn = 0;
-    timeScale = meta.timeUnit?.scale ?? 1;
+    firstColumn[firstColumn.length - 1] > firstColumn[0];
+  if (columns.length >= 2 && columns[0].numeric && !isIndex(columns[0]) && increasing) {
     notes.push(
       `No column is named as time; the first column ("${columns[0].label}") only increases and is read as time in ${meta.timeUnit?.text ?? 's'}.`,
     );
-  } else {
-    throw new WaveformError(
-      'NO_TIME_BASE',
-      'The file has no time column and its metadata gives no sample interval, so the samples cannot be placed in time.',
-    );
+    return { timeColumn: 0, timeScale: meta.timeUnit?.scale ?? 1 };
   }
-  if (timeColumn === null) {
-    notes.push(
-      `No time column: time is taken from the metadata, start ${meta.start ?? 0} s and sample interval ${meta.increment} s.`,
-    );
-  }
+  throw new WaveformError(
+    'NO_TIME_BASE',
+    'The file has no time column and its metadata gives no sample interval, so the samples cannot be placed in time.',
+  );
+}
+
+/** Reads the layout from the head of `source`. */
+export async function readLayout(source: ByteSource): Promise<CaptureLayout> {
+  const { encoding, eol, lines, all } = await readHead(source);
+  const best = pickRun(lines, all);
+  const header = readHeader(lines, best);
+  const meta = readMetadata(lines.slice(0, header.metadataEnd), String.fromCharCode(best.sep), best.decimalComma);
+  const { columns, firstColumn } = readColumns(lines, best, header.cells);
+  const notes: string[] = [];
+  const { timeColumn, timeScale } = findTimeBase(columns, firstColumn, meta, notes);
 
   for (const c of columns) {
     if (c.numeric && c.index !== timeColumn && isIndex(c)) notes.push(`Column "${c.label}" is taken as a sample number, not a channel.`);
@@ -470,12 +293,8 @@ function sniffLayout(bytes: Uint8Array, complete: boolean): CaptureLayout {
   for (const c of channels) {
     if (c.header?.unknownUnit) notes.push(`Unit "${c.header.unknownUnit}" of "${c.label}" is not recognised; its values are used as volts.`);
   }
-  if (meta.probe !== null) {
-    notes.push(
-      `The metadata states a probe setting "${meta.probe}". Values are used exactly as exported; if the instrument did not apply the probe ratio, the voltages are off by that factor.`,
-    );
-  }
   return {
+    encoding,
     sep: best.sep,
     eol,
     decimalComma: best.decimalComma,

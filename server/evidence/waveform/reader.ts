@@ -6,6 +6,7 @@ import {
   type WaveformAnalysis,
 } from '../../../shared/schema/waveform';
 import { analyseSource } from './analyse';
+import { scanSource } from './encoding';
 import { readLayout } from './layout';
 import { readPass } from './samples';
 import { memorySource, openFileSource, type ByteSource } from './source';
@@ -21,7 +22,10 @@ async function withFile<T>(path: string, use: (source: ByteSource) => Promise<T>
   }
 }
 
-const textSource = (text: string) => memorySource(Buffer.from(text, 'utf8'));
+/** A capture in memory: text (as UTF-8), or the bytes of a file in any encoding the reader takes. */
+export type CaptureContent = string | Uint8Array;
+
+const textSource = (content: CaptureContent) => memorySource(typeof content === 'string' ? Buffer.from(content, 'utf8') : content);
 
 /**
  * Reads and analyses a capture file. Throws `WaveformError` when the file is not a usable capture, and
@@ -33,8 +37,8 @@ export async function analyseCaptureFile(path: string, options: AnalysisOptions)
   return withFile(path, (source) => analyseSource(source, parsed));
 }
 
-/** As `analyseCaptureFile`, for a capture already in memory as text. */
-export async function analyseCaptureText(text: string, options: AnalysisOptions): Promise<WaveformAnalysis> {
+/** As `analyseCaptureFile`, for a capture already in memory. */
+export async function analyseCaptureText(text: CaptureContent, options: AnalysisOptions): Promise<WaveformAnalysis> {
   return analyseSource(textSource(text), analysisOptionsSchema.parse(options));
 }
 
@@ -69,7 +73,7 @@ export interface CaptureTable {
 }
 
 /** Every sample of a small capture, all channels. Holds everything in memory: not for large files. */
-export async function readCaptureText(text: string): Promise<CaptureTable> {
+export async function readCaptureText(text: CaptureContent): Promise<CaptureTable> {
   const source = textSource(text);
   const layout = await readLayout(source);
   const table: CaptureTable = {
@@ -80,7 +84,7 @@ export async function readCaptureText(text: string): Promise<CaptureTable> {
     truncatedLastLine: false,
   };
   const pass = await readPass(
-    source,
+    scanSource(source, layout.encoding),
     layout,
     layout.channelColumns,
     layout.channelScales,

@@ -299,6 +299,13 @@ export function slice(s: Series, from: number, to: number): Series {
   };
 }
 
+/** The series of −v (the marker channel as it is): a rail of the other sign seen as a positive one. */
+export function mirrored(s: Series): Series {
+  const v = slice(s, 0, s.count);
+  const negated = (a: Float64Array) => a.map((x) => -x);
+  return { ...v, vm: negated(v.vm), stv: negated(v.stv), vmin: negated(v.vmax), tmin: v.tmax, vmax: negated(v.vmin), tmax: v.tmin };
+}
+
 /** Index of the first bucket whose mean time is ≥ t (count when none). */
 export function firstAtOrAfter(s: Series, t: number): number {
   let lo = 0;

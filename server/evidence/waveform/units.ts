@@ -80,7 +80,7 @@ export function readHeaderCell(raw: string): HeaderCell {
   return { label, base: label, unit: null, unknownUnit: null };
 }
 
-/** Reads "1E-05", "10 us", "100kS/s", "1,5E-3 s" (decimal comma when `decimalComma`). */
+/** Reads "1E-05", "10 us", "100kS/s", "1,5E-3 s", "2E-3 [s]" (decimal comma when `decimalComma`). */
 export function readQuantity(raw: string, decimalComma: boolean): { value: number; unit: Unit | null } | null {
   const text = raw.trim().replace(/^"(.*)"$/, '$1').trim();
   const match = /^([+-]?(?:\d+[.,]?\d*|[.,]\d+)(?:[eE][+-]?\d+)?)\s*(.*)$/.exec(text);
@@ -89,7 +89,8 @@ export function readQuantity(raw: string, decimalComma: boolean): { value: numbe
   if (number.includes(',') && !decimalComma) return null;
   const value = Number(number.replace(',', '.'));
   if (!Number.isFinite(value)) return null;
-  const rest = match[2].trim();
+  // The unit may follow bare or in brackets: "1E-04 s", "1E-04 [s]".
+  const rest = match[2].trim().replace(/^[([{]\s*(.*?)\s*[)\]}]$/, '$1');
   if (!rest) return { value, unit: null };
   const unit = parseUnit(rest);
   return unit ? { value, unit } : null;
