@@ -140,16 +140,20 @@ export function measuredDischargeCheck(
     loadingCapacitance: loading.kind === 'corrected' ? loading.capacitance : null,
   };
 
+  // A negative rail is analysed as |v|; the detail keeps its sign so nobody reads it as a positive bus.
+  const from = analysis.polarity === 'negative' ? `${q(-v0, 'V')} (negative rail, measured as |v|)` : q(v0, 'V');
   const clauses: string[] = [];
   clauses.push(
     measured === null
-      ? `${evidenceName}: from ${q(v0, 'V')} at t0 (${T0_SOURCE[analysis.t0Source]}) the voltage does not stay below ${q(safeVoltage, 'V')} within the capture`
-      : `${evidenceName}: from ${q(v0, 'V')} at t0 (${T0_SOURCE[analysis.t0Source]}), below ${q(safeVoltage, 'V')} to stay after ${q(measured, 's')} as measured`,
+      ? `${evidenceName}: from ${from} at t0 (${T0_SOURCE[analysis.t0Source]}) the voltage does not stay below ${q(safeVoltage, 'V')} within the capture`
+      : `${evidenceName}: from ${from} at t0 (${T0_SOURCE[analysis.t0Source]}), below ${q(safeVoltage, 'V')} to stay after ${q(measured, 's')} as measured`,
   );
   if (analysis.vAtLimit !== undefined) {
     clauses.push(analysis.vAtLimit === null ? 'the capture ends before the time limit' : `${q(analysis.vAtLimit, 'V')} at the time limit in the capture`);
   }
   clauses.push(loadingWords(loading, analysis.tau));
+  const warnings = analysis.warnings ?? [];
+  if (warnings.length) clauses.push(`${warnings.length === 1 ? 'one warning' : `${warnings.length} warnings`} on this capture to read first: ${warnings.join('; ')}`);
 
   let value: number | null = null;
   if (measured !== null && unloaded !== null && loading.kind !== 'impossible') {
