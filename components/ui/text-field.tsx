@@ -36,9 +36,12 @@ export const TextField = forwardRef<TextInput, Props>(function TextField({ label
 });
 
 const styles = StyleSheet.create({
-  wrap: { gap: space.xs, flexGrow: 1, minWidth: 140 },
+  // Grows into the room it is given and shrinks to it: neither the input's own width nor a long error
+  // message may push it past its card.
+  wrap: { gap: space.xs, flexGrow: 1, flexShrink: 1, minWidth: 140, maxWidth: '100%' },
   input: {
     minHeight: 44,
+    minWidth: 0,
     borderWidth: 1,
     borderColor: colors.line,
     borderRadius: radius.md,
