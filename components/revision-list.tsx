@@ -1,15 +1,10 @@
 import { Link } from 'expo-router';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
 import { colors, space, type } from '../constants/theme';
+import { formatWhen } from '../shared/dates';
 import type { RevisionBrief } from '../hooks/types';
 import { StatusBadge, VerdictBadge } from './status';
 import { Message } from './ui/message';
-
-export function formatWhen(iso: string | null): string {
-  if (!iso) return '—';
-  const d = new Date(iso);
-  return `${d.toLocaleDateString(undefined, { year: 'numeric', month: 'short', day: 'numeric' })} ${d.toLocaleTimeString(undefined, { hour: '2-digit', minute: '2-digit' })}`;
-}
 
 /** Revisions as tappable rows: dossier, revision number, status and verdict in words. */
 export function RevisionList({ items, empty, testID }: { items: RevisionBrief[]; empty: string; testID: string }) {

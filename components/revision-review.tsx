@@ -6,7 +6,7 @@ import { ApiError } from '../hooks/api';
 import type { Revision } from '../hooks/types';
 import type { Me } from '../hooks/use-me';
 import { useAddComment, useDecideRevision, useSubmitRevision } from '../hooks/use-revision';
-import { formatWhen } from './revision-list';
+import { formatWhen } from '../shared/dates';
 import { StatusBadge, VerdictBadge } from './status';
 import { Button } from './ui/button';
 import { Card } from './ui/card';

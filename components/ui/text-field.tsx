@@ -1,6 +1,7 @@
 import { forwardRef } from 'react';
 import { StyleSheet, Text, TextInput, View, type TextInputProps } from 'react-native';
 import { colors, fonts, radius, space, type } from '../../constants/theme';
+import { ReadOnlyValue } from './read-only-value';
 
 interface Props extends Omit<TextInputProps, 'style'> {
   label: string;
@@ -9,7 +10,9 @@ interface Props extends Omit<TextInputProps, 'style'> {
   hint?: string;
 }
 
+/** A labelled text input; with `editable={false}` (a frozen record) the value is shown as text instead. */
 export const TextField = forwardRef<TextInput, Props>(function TextField({ label, error, hint, testID, ...input }, ref) {
+  if (input.editable === false) return <ReadOnlyValue label={label} value={input.value ?? ''} testID={testID} />;
   return (
     <View style={styles.wrap}>
       <Text style={type.label} nativeID={`${testID}-label`}>

@@ -1,6 +1,6 @@
 import { Link, useLocalSearchParams, useRouter } from 'expo-router';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
-import { formatWhen } from '../../../components/revision-list';
+import { formatWhen } from '../../../shared/dates';
 import { StatusBadge, VerdictBadge } from '../../../components/status';
 import { Button } from '../../../components/ui/button';
 import { Card } from '../../../components/ui/card';

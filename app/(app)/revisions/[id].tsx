@@ -37,7 +37,8 @@ export default function RevisionScreen() {
       title={`Revision ${rev.number}`}
       subtitle={`${rev.dossier.title} · ${rev.dossier.product.name}`}
       testID="revision-screen"
-      showCaution
+      // The Design tab's results carry the caution line themselves; once on a screen is enough.
+      showCaution={tab !== 'design'}
       actions={
         <a href={`/api/revisions/${rev.id}/dossier.pdf`} download={`voltfall-dossier-${rev.dossierId}-rev${rev.number}.pdf`} data-testid="export-pdf" style={{ color: colors.surface, backgroundColor: colors.brand, fontFamily: fonts.semibold, padding: '11px 16px', borderRadius: 8, textDecoration: 'none' }}>
           {rev.status === 'approved' ? 'Export signed PDF' : 'Export draft PDF'}
