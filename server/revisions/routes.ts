@@ -6,7 +6,7 @@ import { AppError, validationError } from '../errors';
 import { parseId } from '../params';
 import { diffRevisions } from './diff';
 import { submitRevision, updateDraft } from './domain';
-import { loadDossier, loadRevision } from './store';
+import { loadDossier, loadReturnAnswered, loadRevision } from './store';
 
 export function revisionRoutes(ctx: AppContext): Router {
   const router = Router();
@@ -16,7 +16,7 @@ export function revisionRoutes(ctx: AppContext): Router {
     const rev = await loadRevision(db, parseId(req.params.id));
     const dossier = await loadDossier(db, rev.dossierId);
     const siblings = await db('revision').where({ dossier_id: rev.dossierId }).orderBy('number').select('id', 'number', 'status');
-    res.json({ ...rev, dossier, siblings });
+    res.json({ ...rev, dossier, siblings, answersReturn: await loadReturnAnswered(db, rev) });
   });
 
   router.patch('/:id', allow('engineer', 'admin'), async (req, res) => {

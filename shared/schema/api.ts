@@ -33,6 +33,16 @@ export interface DecisionView {
   at: string;
 }
 
+/** A reviewer's return of a revision, as the next revision and the Overview show it. */
+export interface ReturnNoteView {
+  /** The revision that was returned. */
+  revisionId: number;
+  number: number;
+  comment: string;
+  reviewer: Person;
+  at: string;
+}
+
 export interface RevisionView<E extends EvidenceView = EvidenceView> {
   id: number;
   dossierId: number;

@@ -4,6 +4,7 @@ import { StyleSheet, Text, View } from 'react-native';
 import { RevisionChanges } from '../../../components/revision-changes';
 import { RevisionDesign } from '../../../components/revision-design';
 import { RevisionEvidence } from '../../../components/revision-evidence';
+import { ReturnNote } from '../../../components/return-note';
 import { RevisionReview } from '../../../components/revision-review';
 import { StatusBadge, VerdictBadge } from '../../../components/status';
 import { Tabs } from '../../../components/tabs';
@@ -52,6 +53,7 @@ export default function RevisionScreen() {
           All revisions of this dossier
         </Link>
       </View>
+      {rev.answersReturn ? <ReturnNote note={rev.answersReturn} toReader={rev.author.id === me.id} testID="return-note" /> : null}
       <Tabs tabs={TABS} value={tab} onChange={setTab} testID="revision-tabs" />
       {tab === 'design' ? <RevisionDesign key={`${rev.id}-${rev.status}`} revision={rev} me={me} /> : null}
       {tab === 'evidence' ? <RevisionEvidence revision={rev} me={me} /> : null}
