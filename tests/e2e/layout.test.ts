@@ -16,7 +16,7 @@ interface LayoutReport {
   viewport: number;
   /** The widest of the document and of every scrolling container, as scrollWidth − clientWidth. */
   sideways: string[];
-  /** Inputs (and text areas) whose box is not inside the card that holds them. */
+  /** Inputs, text areas and text whose box is not inside the card that holds them. */
   outsideCard: string[];
   /** Inputs, buttons and error messages whose box leaves the screen. */
   outsideScreen: string[];
@@ -57,6 +57,15 @@ function measure(page: Page): Promise<LayoutReport> {
       const c = card.getBoundingClientRect();
       if (r.left < c.left - slack || r.right > c.right + slack) {
         outsideCard.push(`${name(input)} spans ${Math.round(r.left)}–${Math.round(r.right)}, its card ${Math.round(c.left)}–${Math.round(c.right)}`);
+      }
+    }
+    // Text is held by its card too, across and down: a card too short for its content lets it run over the next.
+    for (const el of Array.from(document.querySelectorAll('[role="group"] [dir="auto"]')).filter(visible)) {
+      const card = el.closest('[role="group"]')!;
+      const r = el.getBoundingClientRect();
+      const c = card.getBoundingClientRect();
+      if (r.left < c.left - slack || r.right > c.right + slack || r.top < c.top - slack || r.bottom > c.bottom + slack) {
+        outsideCard.push(`text “${(el.textContent ?? '').slice(0, 40)}” at ${Math.round(r.left)}–${Math.round(r.right)} × ${Math.round(r.top)}–${Math.round(r.bottom)}, its card ${Math.round(c.left)}–${Math.round(c.right)} × ${Math.round(c.top)}–${Math.round(c.bottom)}`);
       }
     }
     for (const el of Array.from(document.querySelectorAll('[role="button"], button, a')).filter(visible)) {
@@ -205,7 +214,7 @@ describe('layout of every screen', () => {
         await expectTidy(p, `revision-${label}-design-${name}`, { inputs: label === 'draft' });
         for (const tab of ['evidence', 'changes', 'review'] as const) {
           await p.page.getByTestId(`revision-tabs-${tab}`).click();
-          await p.page.getByTestId(tab === 'changes' ? (rev.id === draft.id ? 'changes' : 'changes-none') : `${tab}-tab`).waitFor();
+          await p.page.locator(tab === 'changes' ? '[data-testid="changes"], [data-testid="changes-none"]' : `[data-testid="${tab}-tab"]`).first().waitFor();
           await expectTidy(p, `revision-${label}-${tab}-${name}`);
         }
       }

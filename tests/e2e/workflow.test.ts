@@ -50,6 +50,10 @@ describe('dossier review story at phone width', () => {
     const products = (await browser.server.ctx.db('product').select('id').orderBy('id')) as Array<{ id: number }>;
     await engineer.page.getByTestId(`dossier-product-${products[1].id}`).click();
     await fill(engineer.page, 'dossier-title', 'Browser story: DC-link at operator access');
+    // The limit is the engineer's entry; nothing is filled in for them.
+    expect(await engineer.page.getByTestId('dossier-req-safeVoltage').inputValue()).toBe('');
+    await fill(engineer.page, 'dossier-req-safeVoltage', '60 V');
+    await fill(engineer.page, 'dossier-req-maxTime', '5 s');
     await engineer.shot('workflow-01-new-dossier-phone');
     await engineer.page.getByTestId('create-dossier').click();
     await engineer.page.getByTestId('revision-screen').waitFor();
@@ -119,6 +123,8 @@ describe('dossier review story at phone width', () => {
     // The old capture was of the 100 kΩ build: it no longer fits the predicted band, so it is replaced.
     await engineer.page.getByTestId('revision-tabs-evidence').click();
     await engineer.page.locator('[data-testid^="remove-evidence-"]').first().click();
+    await engineer.page.getByTestId('remove-evidence-dialog-confirm').click();
+    await engineer.page.getByTestId('evidence-removed').waitFor();
     await engineer.page.getByTestId('evidence-empty').waitFor();
     await uploadCapture(engineer.page, 'bench-rev2.csv', 0.9);
     await engineer.page.getByTestId('revision-tabs-changes').click();
