@@ -73,7 +73,9 @@ export function ProductPicker({ products, value, onChange, testID }: Props) {
           : found.length === 0
             ? `No product matches “${query.trim()}”.`
             : found.length > SHOWN
-              ? `${found.length} products match; the first ${SHOWN} by name are listed. Type more of the name or model number to narrow them.`
+              ? query.trim()
+                ? `${found.length} products match; the first ${SHOWN} by name are listed. Type more of the name or model number to narrow them.`
+                : `${found.length} products; the first ${SHOWN} by name are listed. Type part of a name or model number to find the others.`
               : `${found.length} of ${products.length} product${products.length === 1 ? '' : 's'}.`}
       </Text>
       <View style={styles.list}>

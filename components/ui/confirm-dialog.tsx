@@ -23,7 +23,7 @@ interface Props {
 /** Asks before a change that matters: says what will happen, offers Cancel first, and reports a failure in place. */
 export function ConfirmDialog({ visible, title, consequences, confirmLabel, tone = 'primary', busy, error, onConfirm, onCancel, testID }: Props) {
   return (
-    <Modal visible={visible} transparent animationType="fade" onRequestClose={onCancel}>
+    <Modal visible={visible} transparent animationType="none" onRequestClose={onCancel}>
       <View style={styles.backdrop}>
         {/* A tap beside the dialog cancels, as Escape does. */}
         <Pressable style={StyleSheet.absoluteFill} onPress={onCancel} accessibilityLabel="Cancel" testID={`${testID}-backdrop`} />

@@ -2,6 +2,7 @@
 // naming the actor, the revision number and the file — no raw action codes.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { auditSentence } from '../../shared/audit-sentences';
+import { captureCsv } from '../support/captures';
 import { demoDesign, demoRequirement } from '../support/fixtures';
 import { startTestServer, type TestServer } from '../support/test-server';
 
@@ -11,16 +12,6 @@ beforeAll(async () => {
 });
 afterAll(() => server.close());
 
-/** An RC decay V0·e^(−t/τ) after a pre-trigger plateau (common practice: the shape of a bleeder discharge). */
-function capture(v0: number, tau: number): string {
-  const rows = ['Time (s),CH1 (V)'];
-  for (let i = 0; i < 3000; i++) {
-    const t = -0.5 + i * 0.003;
-    rows.push(`${t.toFixed(4)},${(t < 0 ? v0 : v0 * Math.exp(-t / tau)).toFixed(3)}`);
-  }
-  return rows.join('\n');
-}
-
 describe('audit trail in words', () => {
   it('when a dossier goes through a return and a second revision, then each event reads as a sentence with actor, revision number and file name', async () => {
     const engineer = await server.signIn('engineer');
@@ -29,7 +20,7 @@ describe('audit trail in words', () => {
     const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Audit words', requirement: demoRequirement })).body;
     const first = dossier.revisions[0].id as number;
     await engineer.patch(`/api/revisions/${first}`).send({ design: demoDesign, notes: 'First cut.' }).expect(200);
-    const upload = await engineer.post(`/api/revisions/${first}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(600, 1.3)), 'bench-rev1.csv');
+    const upload = await engineer.post(`/api/revisions/${first}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(captureCsv(1.3)), 'bench-rev1.csv');
     expect(upload.status).toBe(201);
     await engineer.post(`/api/revisions/${first}/submit`).expect(200);
     await reviewer.post(`/api/revisions/${first}/comments`).send({ body: 'Which probe?' }).expect(201);

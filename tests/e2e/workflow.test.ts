@@ -5,6 +5,7 @@ import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { pdfsig } from '../pdf/poppler';
 import { openBrowser, PHONE, WIDE, type Browser, type WatchedPage } from './browser';
+import { uploadCapture } from '../support/captures';
 
 let browser: Browser;
 beforeAll(async () => {
@@ -19,19 +20,6 @@ async function fill(page: Page, testID: string, text: string) {
 
 async function waitSaved(page: Page) {
   await expect.poll(() => page.getByTestId('save-state').textContent(), { timeout: 15_000 }).toMatch(/^Saved/);
-}
-
-/** Uploads a capture V0·e^(−t/τ) (600 V, pre-trigger plateau) through the page's file picker. */
-async function uploadCapture(page: Page, name: string, tau: number) {
-  const rows = ['Time (s),CH1 (V)'];
-  for (let i = 0; i < 3000; i++) {
-    const t = -0.5 + i * 0.003;
-    rows.push(`${t.toFixed(4)},${(t < 0 ? 600 : 600 * Math.exp(-t / tau)).toFixed(3)}`);
-  }
-  const chooser = page.waitForEvent('filechooser');
-  await page.getByTestId('choose-file').click();
-  await (await chooser).setFiles({ name, mimeType: 'text/csv', buffer: Buffer.from(rows.join('\n')) });
-  await page.getByTestId('evidence-overlay').waitFor({ timeout: 20_000 });
 }
 
 async function openReviewTab(p: WatchedPage, revisionId: number) {
