@@ -4,7 +4,7 @@ import { useState } from 'react';
 import { StyleSheet, Text, View, type LayoutChangeEvent } from 'react-native';
 import Svg, { Circle, G, Line, Path, Text as SvgText } from 'react-native-svg';
 import { LegendEntry } from './chart-legend';
-import { colors, fonts, space, type } from '../constants/theme';
+import { colors, fonts, measuredPalette, space, type } from '../constants/theme';
 import type { CurvePoint } from '../shared/schema/discharge';
 import { formatQuantity } from '../shared/units';
 
@@ -34,6 +34,9 @@ const WORST_DASH = '8 4';
 const LIMIT_DASH = '4 4';
 // The first measurement is drawn solid and thick so it stands out over the predicted curves.
 const MEASURED_DASHES: Array<string | undefined> = [undefined, '6 3', '1 4'];
+
+/** Colour and dash of the i-th capture, the same in the legend and on the plot. */
+const measuredStroke = (i: number) => ({ stroke: measuredPalette[i % measuredPalette.length], dash: MEASURED_DASHES[i % MEASURED_DASHES.length] });
 
 interface Axis {
   unit: 'ms' | 's';
@@ -130,7 +133,7 @@ export function DecayChart({ curve, requirement, measured = [], testID = 'decay-
         {curve.length > 0 ? <LegendEntry stroke={colors.chartNominal} width={2.5} label="Nominal (nominal parts, nominal bus)" testID={`${testID}-legend-nominal`} /> : null}
         {curve.length > 0 ? <LegendEntry stroke={colors.chartWorst} width={2} dash={WORST_DASH} label="Worst case (slowest parts, maximum bus)" testID={`${testID}-legend-worst`} /> : null}
         {traces.map((m, i) => (
-          <LegendEntry key={m.name} stroke={colors.chartMeasured} width={3} dash={MEASURED_DASHES[i % MEASURED_DASHES.length]} label={`Measured: ${m.name}`} testID={`${testID}-legend-measured-${i}`} />
+          <LegendEntry key={`${i}-${m.name}`} stroke={measuredStroke(i).stroke} width={3} dash={measuredStroke(i).dash} label={`Measured: ${m.name}`} testID={`${testID}-legend-measured-${i}`} />
         ))}
       </View>
       <Text style={type.small}>Bus voltage (V)</Text>
@@ -183,7 +186,7 @@ export function DecayChart({ curve, requirement, measured = [], testID = 'decay-
               </>
             ) : null}
             {traces.map((m, i) => (
-              <Path key={m.name} d={path(m.points) ?? ''} stroke={colors.chartMeasured} strokeWidth={3} strokeOpacity={0.85} strokeDasharray={MEASURED_DASHES[i % MEASURED_DASHES.length]} fill="none" />
+              <Path key={`${i}-${m.name}`} d={path(m.points) ?? ''} stroke={measuredStroke(i).stroke} strokeWidth={3} strokeOpacity={0.85} strokeDasharray={measuredStroke(i).dash} fill="none" testID={`${testID}-measured-${i}`} />
             ))}
             {safe !== null && tNominal !== null ? <Circle cx={X(tNominal)} cy={y(safe)} r={4} fill={colors.surface} stroke={colors.chartNominal} strokeWidth={2} /> : null}
             {safe !== null && tWorst !== null ? <Circle cx={X(tWorst)} cy={y(safe)} r={4} fill={colors.chartWorst} stroke={colors.chartWorst} strokeWidth={2} /> : null}

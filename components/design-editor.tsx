@@ -133,7 +133,7 @@ export function DesignEditor({ value, onChange, readOnly, testIDPrefix = 'design
           testID={`${testIDPrefix}-active-mode`}
           options={ACTIVE_OPTIONS}
           value={mode}
-          disabled={readOnly}
+          readOnly={readOnly}
           onChange={(m) => onChange(withActiveMode(value, m))}
         />
         {errorAt('active') ? <Message tone="error" text={errorAt('active') ?? ''} /> : null}

@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, radius, space, type } from '../constants/theme';
 import { useResendInvite, useRevokeInvite, type TeamMember } from '../hooks/use-team';
-import { formatWhen } from './revision-list';
+import { formatWhen } from '../shared/dates';
 import { Badge } from './ui/badge';
 import { Button } from './ui/button';
 import { Message } from './ui/message';

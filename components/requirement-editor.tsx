@@ -20,6 +20,8 @@ interface Props {
   testIDPrefix?: string;
   /** Problems reported for paths under "requirement."; shown on their fields. */
   serverErrors?: readonly FieldProblem[];
+  /** Lists the typical requirements from the start, one tap from use (an empty requirement). */
+  presetsOpen?: boolean;
 }
 
 type NumberKey = 'safeVoltage' | 'maxTime' | 'maxEnergy' | 'maxCharge' | 'fallbackMaxTime' | 'singleFaultMaxTime';
@@ -50,8 +52,8 @@ function matchingPreset(value: RequirementDraft): RequirementPreset | undefined 
  * The limit a design must meet (DESIGN.md §4.1), entered by the user; presets are starting points and
  * say so.
  */
-export function RequirementEditor({ value, onChange, readOnly, testIDPrefix = 'requirement', serverErrors = [] }: Props) {
-  const [choosing, setChoosing] = useState(false);
+export function RequirementEditor({ value, onChange, readOnly, testIDPrefix = 'requirement', serverErrors = [], presetsOpen = false }: Props) {
+  const [choosing, setChoosing] = useState(presetsOpen);
   const errorAt = (path: string) => serverErrors.find((e) => e.path === `requirement.${path}`)?.message;
   const preset = matchingPreset(value);
   const field = (spec: FieldSpec) => {
@@ -83,6 +85,7 @@ export function RequirementEditor({ value, onChange, readOnly, testIDPrefix = 'r
           />
           {choosing ? (
             <View style={styles.presetList} accessibilityRole="list">
+              <Text style={type.label}>Typical requirements — verify each before relying on it</Text>
               {REQUIREMENT_PRESETS.map((p) => (
                 <Pressable
                   key={p.id}

@@ -1,3 +1,4 @@
+import { useState } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, radius, space, type } from '../constants/theme';
 import { formatQuantity } from '../shared/units';
@@ -6,6 +7,7 @@ import { useRevisionDiff } from '../hooks/use-revision';
 import { VerdictBadge } from './status';
 import { Badge } from './ui/badge';
 import { Card } from './ui/card';
+import { Choice } from './ui/choice';
 import { Message } from './ui/message';
 
 const outcome = (side: NonNullable<CheckChange['from']>) => (side.informational ? 'for information' : side.pass ? 'pass' : 'fail');
@@ -31,18 +33,41 @@ function groupByFile(checks: readonly CheckChange[]): CheckGroup[] {
 
 const KIND_WORDS = { 'now-fails': 'Now fails', 'now-passes': 'Now passes', 'value-changed': 'Value changed', added: 'New check', removed: 'Check removed' } as const;
 
-/** What changed since the revision this one came from: inputs in units, checks, notes, evidence. */
+/** The revision a new one is first compared with: the one it was started from, else the one before it. */
+function firstCounterpart(revision: Revision, others: Revision['siblings']): number | undefined {
+  const from = others.find((s) => s.id === revision.createdFrom);
+  const before = [...others].reverse().find((s) => s.number < revision.number);
+  return (from ?? before ?? others[0])?.id;
+}
+
+/**
+ * What changed between this revision and any other of its dossier (by default the one it came from):
+ * inputs in units, checks, notes, evidence. Always read from the older revision to the newer one.
+ */
 export function RevisionChanges({ revision }: { revision: Revision }) {
-  const hasPrevious = revision.number > 1;
-  const diff = useRevisionDiff(revision.id, hasPrevious);
-  if (!hasPrevious) return <Message text="Revision 1 has nothing to compare with." testID="changes-none" />;
-  if (diff.isError) return <Message tone="error" text={diff.error.message} />;
-  if (!diff.data) return <Text style={type.body}>Comparing…</Text>;
+  const others = revision.siblings.filter((s) => s.id !== revision.id);
+  const [otherId, setOtherId] = useState(() => firstCounterpart(revision, others));
+  const other = others.find((s) => s.id === otherId);
+  const [older, newer] = other && other.number > revision.number ? [revision.id, other.id] : [other?.id, revision.id];
+  const diff = useRevisionDiff(newer, older);
+  if (!other) return <Message text={`Revision ${revision.number} is the only revision of this dossier; there is nothing to compare it with.`} testID="changes-none" />;
+  const picker = (
+    <Choice
+      label={`Compare revision ${revision.number} with`}
+      testID="changes-against"
+      options={others.map((s) => ({ value: String(s.id), label: `Revision ${s.number}` }))}
+      value={String(other.id)}
+      onChange={(id) => setOtherId(Number(id))}
+    />
+  );
+  if (diff.isError) return <View style={styles.wrap}>{picker}<Message tone="error" text={diff.error.message} /></View>;
+  if (!diff.data) return <View style={styles.wrap}>{picker}<Text style={type.body}>Comparing…</Text></View>;
   const d = diff.data;
   return (
     <View style={styles.wrap} testID="changes">
-      <Text style={type.small}>
-        Revision {d.revision.number} compared with revision {d.against.number}.
+      {picker}
+      <Text style={type.small} testID="changes-direction">
+        From revision {d.against.number} to revision {d.revision.number}: what revision {d.revision.number} changed.
       </Text>
       {d.verdict ? (
         <Card title="Verdict changed" testID="changes-verdict">

@@ -2,6 +2,7 @@ import { useEffect, useRef, useState } from 'react';
 import { StyleSheet, Text, useWindowDimensions, View } from 'react-native';
 import { colors, space, type, WIDE_BREAKPOINT } from '../constants/theme';
 import type { DesignDraft } from '../shared/schema/discharge';
+import { formatWhen } from '../shared/dates';
 import { formatQuantity } from '../shared/units';
 import { ApiError, type FieldError } from '../hooks/api';
 import type { Revision } from '../hooks/types';
@@ -10,6 +11,7 @@ import { useSaveRevision } from '../hooks/use-revision';
 import { DesignEditor } from './design-editor';
 import { singleFaultText } from './requirement-editor';
 import { ResultsPanel } from './results-panel';
+import { dropHandedSnubber, peekHandedSnubber } from './snubber-handoff';
 import { SnubberListEditor } from './snubber-list-editor';
 import { Card } from './ui/card';
 import { Message } from './ui/message';
@@ -28,7 +30,13 @@ export function measuredTraces(revision: Pick<Revision, 'evidence'>) {
 export function RevisionDesign({ revision, me }: { revision: Revision; me: Me }) {
   const editable = revision.status === 'draft' && (revision.author.id === me.id || me.role === 'admin');
   const save = useSaveRevision(revision.id);
-  const [design, setDesign] = useState<DesignDraft>(revision.design);
+  // A snubber handed over from the sizing screen joins the list once, and is saved like a typed one.
+  const [handed] = useState(() => peekHandedSnubber(revision.id));
+  const [design, setDesign] = useState<DesignDraft>(() => {
+    if (!handed || !editable) return revision.design;
+    const list = revision.design.snubbers ?? [];
+    return { ...revision.design, snubbers: [...list, { ...handed, name: `SN${list.length + 1}` }] };
+  });
   const [notes, setNotes] = useState(revision.notes);
   const [errors, setErrors] = useState<FieldError[]>([]);
   const [savedAt, setSavedAt] = useState<string | null>(null);
@@ -37,6 +45,13 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
 
   useEffect(() => () => {
     if (timer.current) clearTimeout(timer.current);
+  }, []);
+
+  useEffect(() => {
+    if (!handed) return;
+    dropHandedSnubber(revision.id);
+    if (editable) schedule({ design });
+    // Once, when the tab opens: the handed snubber is already in the first state of the design.
   }, []);
 
   function schedule(next: { design?: DesignDraft; notes?: string }) {
@@ -61,7 +76,7 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
     : save.isError
       ? `Not saved: ${save.error.message}`
       : savedAt
-        ? `Saved ${new Date(savedAt).toLocaleTimeString()}`
+        ? `Saved ${formatWhen(savedAt)}`
         : editable
           ? 'Changes save as you type.'
           : `Frozen: ${revision.status.replace('_', ' ')}.`;
@@ -85,6 +100,17 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
           {saveState}
         </Text>
         {errors.length ? <Message tone="error" text="Some inputs were not accepted; see the marked fields." /> : null}
+        {handed ? (
+          <Message
+            testID="rev-snubber-handed"
+            tone={editable ? 'neutral' : 'error'}
+            text={
+              editable
+                ? `✓ Added ${design.snubbers?.at(-1)?.name ?? 'the snubber'} from the sizing helper to the snubbers below; enter its ratings, tolerance and location.`
+                : `Revision ${revision.number} is not a draft you may edit, so the sized snubber was not added.`
+            }
+          />
+        ) : null}
         <DesignEditor
           value={design}
           readOnly={!editable}

@@ -3,17 +3,18 @@ import { useState } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, radius, space, type } from '../constants/theme';
 import { formatQuantity } from '../shared/units';
-import type { Revision } from '../hooks/types';
+import type { EvidenceRecord, Revision } from '../hooks/types';
 import type { Me } from '../hooks/use-me';
 import { useRemoveEvidence, useUploadEvidence, type EvidenceKind } from '../hooks/use-evidence';
 import { DecayChart } from './decay-chart';
 import { ProbeResistanceField, type ProbeEntry } from './probe-resistance-field';
 import { measuredTraces } from './revision-design';
-import { formatWhen } from './revision-list';
+import { formatWhen } from '../shared/dates';
 import { Badge } from './ui/badge';
 import { Button } from './ui/button';
 import { Card } from './ui/card';
 import { Choice } from './ui/choice';
+import { ConfirmDialog } from './ui/confirm-dialog';
 import { Message } from './ui/message';
 import { TextField } from './ui/text-field';
 
@@ -44,6 +45,16 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
   const upload = useUploadEvidence(revision.id, revision.dossierId);
   const remove = useRemoveEvidence(revision.id);
   const measured = measuredTraces(revision);
+  // Removing asks first; once the server has removed the file the tab says so.
+  const [toRemove, setToRemove] = useState<EvidenceRecord | null>(null);
+  const [removed, setRemoved] = useState<string | null>(null);
+  const confirmRemoval = (e: EvidenceRecord) =>
+    remove.mutate(e.id, {
+      onSuccess: () => {
+        setToRemove(null);
+        setRemoved(e.originalName);
+      },
+    });
 
   async function pick() {
     const picked = await DocumentPicker.getDocumentAsync({ type: PICKER_TYPES[kind], multiple: false, copyToCacheDirectory: false });
@@ -87,6 +98,9 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
         </Card>
       ) : null}
 
+      {removed ? (
+        <Message text={`✓ Removed “${removed}” from revision ${revision.number}; its results were recomputed without it.`} testID="evidence-removed" />
+      ) : null}
       {revision.evidence.length === 0 ? <Message text="No evidence attached yet." testID="evidence-empty" /> : null}
       {revision.evidence.map((e) => (
         <Card key={e.id} title={e.originalName} testID={`evidence-${e.id}`} right={<Badge label={KINDS.find((k) => k.value === e.kind)?.label ?? e.kind} tone="info" />}>
@@ -138,11 +152,34 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
               Download
             </a>
             {editable ? (
-              <Button label="Remove" variant="quiet" testID={`remove-evidence-${e.id}`} busy={remove.isPending} onPress={() => remove.mutate(e.id)} />
+              <Button
+                label="Remove"
+                variant="quiet"
+                testID={`remove-evidence-${e.id}`}
+                onPress={() => {
+                  remove.reset();
+                  setToRemove(e);
+                }}
+              />
             ) : null}
           </View>
         </Card>
       ))}
+      <ConfirmDialog
+        visible={toRemove !== null}
+        title={toRemove ? `Remove “${toRemove.originalName}” from revision ${revision.number}?` : ''}
+        consequences={[
+          'The file leaves this draft’s evidence list' + (toRemove?.analysis ? ', and its measured check leaves the results.' : '.'),
+          'Earlier revisions that list the same file keep it, and the audit trail records the removal.',
+        ]}
+        confirmLabel="Remove the file"
+        tone="danger"
+        busy={remove.isPending}
+        error={remove.error?.message}
+        onCancel={() => setToRemove(null)}
+        onConfirm={() => toRemove && confirmRemoval(toRemove)}
+        testID="remove-evidence-dialog"
+      />
     </View>
   );
 }

@@ -1,15 +1,11 @@
 import { Link } from 'expo-router';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
 import { colors, space, type } from '../constants/theme';
+import { formatWhen } from '../shared/dates';
 import type { RevisionBrief } from '../hooks/types';
+import { returnLine } from './return-note';
 import { StatusBadge, VerdictBadge } from './status';
 import { Message } from './ui/message';
-
-export function formatWhen(iso: string | null): string {
-  if (!iso) return '—';
-  const d = new Date(iso);
-  return `${d.toLocaleDateString(undefined, { year: 'numeric', month: 'short', day: 'numeric' })} ${d.toLocaleTimeString(undefined, { hour: '2-digit', minute: '2-digit' })}`;
-}
 
 /** Revisions as tappable rows: dossier, revision number, status and verdict in words. */
 export function RevisionList({ items, empty, testID }: { items: RevisionBrief[]; empty: string; testID: string }) {
@@ -29,6 +25,11 @@ export function RevisionList({ items, empty, testID }: { items: RevisionBrief[];
               <StatusBadge status={r.status} />
               <VerdictBadge verdict={r.verdict} />
             </View>
+            {r.returnNote ? (
+              <Text style={[type.body, styles.reason]} testID={`${testID}-item-${r.id}-reason`}>
+                {returnLine(r.returnNote)}
+              </Text>
+            ) : null}
           </Pressable>
         </Link>
       ))}
@@ -39,4 +40,5 @@ export function RevisionList({ items, empty, testID }: { items: RevisionBrief[];
 const styles = StyleSheet.create({
   row: { paddingVertical: space.md, borderTopWidth: 1, borderTopColor: colors.line, gap: space.xs },
   badges: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
+  reason: { color: colors.fail },
 });

@@ -293,7 +293,7 @@ function SnubberEntry({ draft, index, readOnly, testID, serverProblems, onChange
           error={problemOf('location')}
         />
       </View>
-      <Choice label="Kind" testID={`${testID}-kind`} options={KIND_OPTIONS} value={draft.kind} disabled={readOnly} onChange={(kind) => onChange(withKind(draft, kind))} />
+      <Choice label="Kind" testID={`${testID}-kind`} options={KIND_OPTIONS} value={draft.kind} readOnly={readOnly} onChange={(kind) => onChange(withKind(draft, kind))} />
 
       <Text style={styles.group}>Parts and ratings</Text>
       <View style={styles.row}>{PARTS.map(numeric)}</View>
@@ -307,7 +307,7 @@ function SnubberEntry({ draft, index, readOnly, testID, serverProblems, onChange
         testID={`${testID}-accessible`}
         options={YES_NO}
         value={draft.accessible ? 'yes' : 'no'}
-        disabled={readOnly}
+        readOnly={readOnly}
         onChange={(v) => onChange({ ...draft, accessible: v === 'yes' })}
       />
 

@@ -19,12 +19,17 @@ export const colors = {
   infoSoft: '#e1ecf6',
   chartNominal: '#1f4f7a',
   chartWorst: '#a3261d',
-  chartMeasured: '#c98a12',
   chartLimit: '#51606b',
   focus: '#2b7bd0',
   /** Dims the screen behind a dialog. */
   scrim: 'rgba(20, 33, 43, 0.55)',
 } as const;
+
+/**
+ * Measured captures overlaid on one chart, each in its own colour (and its own dash, so colour is never
+ * the only difference); none is the nominal blue or the worst-case red. The list repeats after six.
+ */
+export const measuredPalette = ['#c98a12', '#6a3d9a', '#0f7c7c', '#b3367a', '#5b6b1f', '#8a4b14'] as const;
 
 export const space = { xs: 4, sm: 8, md: 12, lg: 16, xl: 24, xxl: 32 } as const;
 

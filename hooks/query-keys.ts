@@ -12,6 +12,8 @@ export const keys = {
   dossier: (id: number) => ['dossiers', id] as const,
   revision: (id: number) => ['revisions', id] as const,
   diff: (id: number, against?: number) => ['revisions', id, 'diff', against ?? 'previous'] as const,
+  /** Every comparison of revision `id` with another. */
+  diffs: (id: number) => ['revisions', id, 'diff'] as const,
   reviews: ['reviews'] as const,
   audit: (dossierId: number) => ['audit', dossierId] as const,
   invite: (token: string) => ['invite', token] as const,

@@ -1,5 +1,5 @@
 // Shapes of the API's answers as the app reads them (the server's JSON contract, DESIGN.md §5).
-import type { EvidenceView, RevisionView } from '../shared/schema/api';
+import type { EvidenceView, ReturnNoteView, RevisionView } from '../shared/schema/api';
 
 export type { CheckChange, RevisionDiff } from '../shared/schema/api';
 import type { DischargeResult, Requirement } from '../shared/schema/discharge';
@@ -58,6 +58,8 @@ export type EvidenceRecord = EvidenceView;
 export interface Revision extends RevisionView {
   dossier: Omit<Dossier, 'revisions'>;
   siblings: Array<{ id: number; number: number; status: RevisionStatus }>;
+  /** The return of the revision before this one, which this one answers; null when there was none. */
+  answersReturn: ReturnNoteView | null;
 }
 
 export interface RevisionBrief {
@@ -68,6 +70,8 @@ export interface RevisionBrief {
   updatedAt: string;
   dossier: { id: number; title: string; productName: string };
   authorName: string;
+  /** On "returned to me" and "my drafts": the reviewer's reason for the return (being) answered. */
+  returnNote?: ReturnNoteView | null;
 }
 
 export interface Overview {
@@ -90,5 +94,5 @@ export interface ReviewQueueItem {
 export interface AuditReport {
   verified: boolean;
   firstBroken: { id: number; reason: string } | null;
-  events: Array<{ id: number; action: string; actorName: string | null; createdAt: string; payload: unknown; hash: string }>;
+  events: Array<{ id: number; action: string; actorName: string | null; subjectType: string; subjectId: string; createdAt: string; payload: unknown; hash: string }>;
 }

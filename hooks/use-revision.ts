@@ -28,6 +28,7 @@ export function useSaveRevision(id: number) {
     onSuccess: (rev) => {
       // Keep the page's own copy fresh without a refetch flicker while typing.
       client.setQueryData<Revision>(keys.revision(id), (old) => (old ? { ...old, ...rev } : old));
+      void client.invalidateQueries({ queryKey: keys.diffs(id) });
       void client.invalidateQueries({ queryKey: keys.dossier(rev.dossierId) });
       void client.invalidateQueries({ queryKey: keys.overview });
     },
@@ -53,8 +54,13 @@ export function useAddComment(id: number) {
   return useMutation({ mutationFn: (body: string) => apiSend<Revision>('POST', `/revisions/${id}/comments`, { body }), onSuccess: invalidate });
 }
 
-export function useRevisionDiff(id: number, enabled: boolean) {
-  return useQuery({ queryKey: keys.diff(id), queryFn: () => apiGet<RevisionDiff>(`/revisions/${id}/diff`), enabled });
+/** How revision `id` differs from revision `against` of the same dossier; idle while `against` is unknown. */
+export function useRevisionDiff(id: number, against: number | undefined) {
+  return useQuery({
+    queryKey: keys.diff(id, against),
+    queryFn: () => apiGet<RevisionDiff>(`/revisions/${id}/diff?against=${against}`),
+    enabled: against !== undefined,
+  });
 }
 
 export function useReviewQueue() {

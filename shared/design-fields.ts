@@ -26,11 +26,12 @@ export interface FieldGroup {
 const q = (unit: QuantityUnit, allowZero = false): FieldKind => ({ type: 'quantity', unit, allowZero });
 
 export const REQUIREMENT_FIELDS: FieldSpec[] = [
-  { path: 'safeVoltage', label: 'Safe voltage', kind: q('V'), placeholder: '60 V' },
-  { path: 'maxTime', label: 'Time limit', kind: q('s'), placeholder: '5 s' },
-  { path: 'maxEnergy', label: 'Energy limit (optional)', kind: q('J'), placeholder: '0.2 J' },
-  { path: 'maxCharge', label: 'Charge limit (optional)', kind: q('C'), placeholder: '45 µC' },
-  { path: 'fallbackMaxTime', label: 'Bleeder-only time limit (optional)', kind: q('s'), placeholder: '120 s' },
+  // No figure in the placeholders: a faint "60 V" reads as a value already chosen, and the limit is the user's.
+  { path: 'safeVoltage', label: 'Safe voltage', kind: q('V'), placeholder: 'your limit, in V' },
+  { path: 'maxTime', label: 'Time limit', kind: q('s'), placeholder: 'your limit, in s' },
+  { path: 'maxEnergy', label: 'Energy limit (optional)', kind: q('J'), placeholder: 'in J' },
+  { path: 'maxCharge', label: 'Charge limit (optional)', kind: q('C'), placeholder: 'in C' },
+  { path: 'fallbackMaxTime', label: 'Bleeder-only time limit (optional)', kind: q('s'), placeholder: 'in s' },
   { path: 'singleFaultMaxTime', label: 'Time limit under a single fault (optional, if longer)', kind: q('s'), placeholder: 'same as the time limit' },
 ];
 

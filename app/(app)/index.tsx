@@ -18,21 +18,21 @@ export default function OverviewScreen() {
       {overview.data ? (
         <View style={[styles.columns, wide && styles.wide]}>
           {me.role === 'reviewer' ? (
-            <Card title={`Awaiting my review (${overview.data.awaitingMyReview.length})`} style={styles.col}>
+            <Card title={`Awaiting my review (${overview.data.awaitingMyReview.length})`} style={wide ? styles.col : undefined}>
               <RevisionList items={overview.data.awaitingMyReview} empty="Nothing awaits your review." testID="awaiting-review" />
             </Card>
           ) : null}
           {authors ? (
-            <Card title={`Returned to me (${overview.data.returnedToMe.length})`} style={styles.col}>
+            <Card title={`Returned to me (${overview.data.returnedToMe.length})`} style={wide ? styles.col : undefined}>
               <RevisionList items={overview.data.returnedToMe} empty="No revision of yours was returned." testID="returned-to-me" />
             </Card>
           ) : null}
           {authors ? (
-            <Card title={`My drafts (${overview.data.myDrafts.length})`} style={styles.col}>
+            <Card title={`My drafts (${overview.data.myDrafts.length})`} style={wide ? styles.col : undefined}>
               <RevisionList items={overview.data.myDrafts} empty="You have no open drafts." testID="my-drafts" />
             </Card>
           ) : null}
-          <Card title="Recently approved" style={styles.col}>
+          <Card title="Recently approved" style={wide ? styles.col : undefined}>
             <RevisionList items={overview.data.recentlyApproved} empty="No revision has been approved yet." testID="recently-approved" />
           </Card>
         </View>

@@ -4,6 +4,7 @@ import { Card } from '../../components/ui/card';
 import { Message } from '../../components/ui/message';
 import { Screen } from '../../components/ui/screen';
 import { colors, space, type } from '../../constants/theme';
+import { formatWhen } from '../../shared/dates';
 import { useOutbox } from '../../hooks/use-team';
 
 export default function OutboxScreen() {
@@ -26,7 +27,7 @@ export default function OutboxScreen() {
       {outbox.data?.messages.map((m) => (
         <Card key={m.id} title={m.subject} testID={`outbox-message-${m.id}`}>
           <Text style={type.small}>
-            To {m.to} · {new Date(m.receivedAt).toLocaleString()}
+            To {m.to} · {formatWhen(m.receivedAt)}
           </Text>
           <Text style={[type.mono, styles.body]}>{m.text}</Text>
         </Card>

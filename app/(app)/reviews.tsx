@@ -1,6 +1,6 @@
 import { Link } from 'expo-router';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
-import { formatWhen } from '../../components/revision-list';
+import { formatWhen } from '../../shared/dates';
 import { VerdictBadge } from '../../components/status';
 import { Card } from '../../components/ui/card';
 import { Message } from '../../components/ui/message';

@@ -1,14 +1,16 @@
-import { useMemo, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { StyleSheet, Text, useWindowDimensions, View } from 'react-native';
 import { SnubberCopyBlock } from '../../components/snubber-copy-block';
 import { SnubberRingingCard } from '../../components/snubber-ringing-card';
+import { SnubberSizingProblem, type SizedReading } from '../../components/snubber-sizing-problem';
 import { SnubberSizingResults } from '../../components/snubber-sizing-results';
+import { SnubberToRevision } from '../../components/snubber-to-revision';
 import { Card } from '../../components/ui/card';
-import { Message } from '../../components/ui/message';
 import { Screen } from '../../components/ui/screen';
 import { TextField } from '../../components/ui/text-field';
 import { space, type, WIDE_BREAKPOINT } from '../../constants/theme';
 import { ApiError } from '../../hooks/api';
+import { useMe } from '../../hooks/use-me';
 import { useSnubberSizing } from '../../hooks/use-snubber-sizing';
 import { MULTIPLE_RANGE, type RingingInputRaw } from '../../shared/schema/snubber';
 import { formatQuantity, parseQuantity, type ParseResult, type QuantityUnit } from '../../shared/units';
@@ -72,6 +74,19 @@ function serverFieldErrors(error: Error | null): Partial<Record<FieldName, strin
   return Object.fromEntries(error.fields.map((f) => [f.path, f.message]));
 }
 
+/** A sized input as the texts of the form, for going back to it. */
+function textsOf(input: RingingInputRaw): Texts {
+  const q = (value: number | null | undefined, unit: QuantityUnit) => (value === null || value === undefined ? '' : formatQuantity(value, unit, 4));
+  return {
+    f0: q(input.f0, 'Hz'),
+    cAdd: q(input.cAdd, 'F'),
+    f1: q(input.f1, 'Hz'),
+    multiple: String(input.multiple),
+    switchingVoltage: q(input.switchingVoltage, 'V'),
+    switchingFrequency: q(input.switchingFrequency, 'Hz'),
+  };
+}
+
 export default function SnubberSizingScreen() {
   const { width } = useWindowDimensions();
   const wide = width >= WIDE_BREAKPOINT;
@@ -80,6 +95,13 @@ export default function SnubberSizingScreen() {
   const { sizing, error, working } = useSnubberSizing(form.input);
   const fromServer = serverFieldErrors(error);
   const fieldError = (name: FieldName) => form.errors[name] ?? fromServer[name];
+  const me = useMe().data;
+  const mayDesign = me?.role === 'engineer' || me?.role === 'admin';
+  // The last reading the server sized, so a mistyped value leaves something to go back to.
+  const [lastSized, setLastSized] = useState<SizedReading | null>(null);
+  useEffect(() => {
+    if (sizing && !error && !working && form.input) setLastSized({ input: form.input, sizing });
+  }, [sizing, error, working, form.input]);
 
   const field = (spec: FieldSpec) => {
     const { unit } = spec;
@@ -126,25 +148,31 @@ export default function SnubberSizingScreen() {
     </View>
   );
 
-  const errorText = !error
-    ? null
-    : error instanceof ApiError && error.fields.length > 0
-      ? `${error.message} See the marked fields.`
-      : error.message;
+  // Reasons per field, from the form's own reading first, then from the server.
+  const reasons = Object.values({ ...fromServer, ...form.errors }).filter((r): r is string => Boolean(r));
+  const refused = error !== null || Object.keys(form.errors).length > 0;
+  const sized = sizing && !error ? sizing : null;
   const results = (
     <View style={[styles.column, wide && styles.columnWide]}>
       <Card title="Parasitics and suggested snubber" testID="sizing-results" right={working ? <Text style={type.small}>Working…</Text> : null}>
-        {errorText ? <Message tone="error" text={errorText} testID="sizing-error" /> : null}
-        {sizing && !error ? (
-          <SnubberSizingResults sizing={sizing} />
-        ) : !error ? (
+        {refused ? (
+          <SnubberSizingProblem
+            message={error?.message ?? 'Some readings could not be read.'}
+            reasons={reasons}
+            lastSized={lastSized}
+            onRestore={(input) => setTexts(textsOf(input))}
+          />
+        ) : sized ? (
+          <SnubberSizingResults sizing={sized} />
+        ) : (
           <Text style={type.body} testID="sizing-empty">
             Enter f0, C_add and f1 to see the parasitic L and C and a snubber that damps them.
           </Text>
-        ) : null}
+        )}
       </Card>
-      {sizing && !error ? <SnubberRingingCard sizing={sizing} voltage={form.input?.switchingVoltage ?? null} /> : null}
-      {sizing && !error ? <SnubberCopyBlock sizing={sizing} input={form.input} /> : null}
+      {sized ? <SnubberRingingCard sizing={sized} voltage={form.input?.switchingVoltage ?? null} /> : null}
+      {sized && mayDesign ? <SnubberToRevision sizing={sized} input={form.input} /> : null}
+      {sized ? <SnubberCopyBlock sizing={sized} input={form.input} /> : null}
     </View>
   );
 

@@ -1,8 +1,10 @@
 import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
 import { Controller, useForm } from 'react-hook-form';
 import { StyleSheet, Text, View } from 'react-native';
 import { inviteUserSchema, ROLE_NAMES, type InviteUserInput } from '../../shared/schema/auth';
 import { InviteControls } from '../../components/invite-controls';
+import { changeDone, TeamChangeDialog, type TeamChange } from '../../components/team-change-dialog';
 import { Badge } from '../../components/ui/badge';
 import { Button } from '../../components/ui/button';
 import { Card } from '../../components/ui/card';
@@ -21,6 +23,25 @@ export default function TeamScreen() {
   const team = useTeam();
   const invite = useInviteUser();
   const update = useUpdateUser();
+  // Role changes and disabling ask first, then say what took effect.
+  const [change, setChange] = useState<TeamChange | null>(null);
+  // The confirmation sits on the row that changed, where the admin is looking.
+  const [done, setDone] = useState<{ userId: string; text: string } | null>(null);
+  const apply = (c: TeamChange) =>
+    update.mutate(
+      { id: c.user.id, ...('role' in c ? { role: c.role } : { disabled: true }) },
+      {
+        onSuccess: (after) => {
+          setChange(null);
+          setDone({ userId: after.id, text: changeDone(c, after) });
+        },
+      },
+    );
+  const ask = (c: TeamChange) => {
+    update.reset();
+    setDone(null);
+    setChange(c);
+  };
   const { control, handleSubmit, formState, reset } = useForm<InviteUserInput>({
     resolver: zodResolver(inviteUserSchema),
     defaultValues: { email: '', name: '', role: 'engineer' },
@@ -62,7 +83,7 @@ export default function TeamScreen() {
               options={roleOptions}
               value={user.role}
               disabled={user.id === me.id}
-              onChange={(role) => update.mutate({ id: user.id, role })}
+              onChange={(role) => (role === user.role ? undefined : ask({ user, role }))}
             />
             {user.id !== me.id ? (
               <View style={{ alignSelf: 'flex-start' }}>
@@ -70,14 +91,20 @@ export default function TeamScreen() {
                   label={user.disabled ? 'Enable account' : 'Disable account'}
                   variant={user.disabled ? 'secondary' : 'danger'}
                   testID={`toggle-${user.email}`}
-                  onPress={() => update.mutate({ id: user.id, disabled: !user.disabled })}
+                  onPress={() =>
+                    user.disabled
+                      ? update.mutate({ id: user.id, disabled: false }, { onSuccess: (after) => setDone({ userId: after.id, text: `✓ The account of ${after.name} is enabled again.` }) })
+                      : ask({ user, disabled: true })
+                  }
                 />
               </View>
             ) : null}
+            {done?.userId === user.id ? <Message text={done.text} testID="team-notice" /> : null}
           </View>
         ))}
-        {update.error ? <Message tone="error" text={update.error.message} /> : null}
+        {update.error && !change ? <Message tone="error" text={update.error.message} /> : null}
       </Card>
+      <TeamChangeDialog change={change} busy={update.isPending} error={update.error?.message ?? null} onConfirm={apply} onCancel={() => setChange(null)} />
     </Screen>
   );
 }

@@ -41,6 +41,8 @@ const styles = StyleSheet.create({
     flexDirection: 'row',
     gap: space.sm,
     borderWidth: 1,
+    // A long label wraps inside the button rather than pushing it past its card.
+    maxWidth: '100%',
   },
   primary: { backgroundColor: colors.brand, borderColor: colors.brand },
   secondary: { backgroundColor: colors.surface, borderColor: colors.brand },
@@ -48,7 +50,7 @@ const styles = StyleSheet.create({
   quiet: { backgroundColor: 'transparent', borderColor: 'transparent' },
   pressed: { opacity: 0.85 },
   inactive: { opacity: 0.5 },
-  label: { fontFamily: fonts.semibold, fontSize: 15 },
+  label: { fontFamily: fonts.semibold, fontSize: 15, flexShrink: 1, textAlign: 'center' },
   labelOnDark: { color: colors.surface },
   labelOnLight: { color: colors.brand },
 });

@@ -12,7 +12,8 @@ interface Props {
 
 export function Card({ title, right, children, testID, style }: Props) {
   return (
-    <View testID={testID} style={[styles.card, style]}>
+    // A labelled group: screen readers announce the card's title, and layout checks find its edges.
+    <View testID={testID} role="group" aria-label={title} style={[styles.card, style]}>
       {title || right ? (
         <View style={styles.header}>
           {title ? (

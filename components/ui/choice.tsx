@@ -1,5 +1,6 @@
 import { Pressable, StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, radius, space, type } from '../../constants/theme';
+import { ReadOnlyValue } from './read-only-value';
 
 interface Props<T extends string> {
   label: string;
@@ -8,10 +9,13 @@ interface Props<T extends string> {
   value: T;
   onChange: (value: T) => void;
   disabled?: boolean;
+  /** A frozen record: only the chosen option is shown, as text. */
+  readOnly?: boolean;
 }
 
 /** A row of mutually exclusive options, large enough for a thumb. */
-export function Choice<T extends string>({ label, testID, options, value, onChange, disabled }: Props<T>) {
+export function Choice<T extends string>({ label, testID, options, value, onChange, disabled, readOnly }: Props<T>) {
+  if (readOnly) return <ReadOnlyValue label={label} value={options.find((o) => o.value === value)?.label ?? ''} testID={testID} />;
   return (
     <View style={styles.wrap} accessibilityRole="radiogroup" accessibilityLabel={label} testID={testID}>
       <Text style={type.label}>{label}</Text>

@@ -87,9 +87,9 @@ export function QuantityField({ label, kind, value, onChange, testID, placeholde
     <TextField
       label={label}
       testID={testID}
-      value={readOnly && text === '' ? '—' : text}
+      value={text}
       onChangeText={change}
-      placeholder={readOnly ? undefined : placeholder}
+      placeholder={placeholder}
       editable={!readOnly}
       autoCapitalize="none"
       autoCorrect={false}

@@ -1,6 +1,7 @@
 import { forwardRef, type ReactNode } from 'react';
 import { StyleSheet, Text, TextInput, View, type TextInputProps } from 'react-native';
 import { colors, fonts, radius, space, type } from '../../constants/theme';
+import { ReadOnlyValue } from './read-only-value';
 
 interface Props extends Omit<TextInputProps, 'style'> {
   label: string;
@@ -11,7 +12,9 @@ interface Props extends Omit<TextInputProps, 'style'> {
   aside?: ReactNode;
 }
 
+/** A labelled text input; with `editable={false}` (a frozen record) the value is shown as text instead. */
 export const TextField = forwardRef<TextInput, Props>(function TextField({ label, error, hint, aside, testID, ...input }, ref) {
+  if (input.editable === false) return <ReadOnlyValue label={label} value={input.value ?? ''} testID={testID} />;
   const field = (
     <TextInput
       ref={ref}
@@ -48,10 +51,12 @@ export const TextField = forwardRef<TextInput, Props>(function TextField({ label
 });
 
 const styles = StyleSheet.create({
-  // Shrinks to its cell, so a reading beside the entry wraps instead of running off a phone screen.
-  wrap: { gap: space.xs, flexGrow: 1, flexShrink: 1, minWidth: 140 },
+  // Grows into the room it is given and shrinks to it: neither the input's own width nor a long error
+  // message may push it past its card.
+  wrap: { gap: space.xs, flexGrow: 1, flexShrink: 1, minWidth: 140, maxWidth: '100%' },
   input: {
     minHeight: 44,
+    minWidth: 0,
     borderWidth: 1,
     borderColor: colors.line,
     borderRadius: radius.md,

@@ -7,7 +7,7 @@ import { AppError, validationError } from '../errors';
 import { parseId } from '../params';
 import { diffRevisions } from './diff';
 import { submitRevision, updateDraft } from './domain';
-import { loadDossier, loadRevision } from './store';
+import { loadDossier, loadReturnAnswered, loadRevision } from './store';
 
 export function revisionRoutes(ctx: AppContext): Router {
   const router = Router();
@@ -19,7 +19,9 @@ export function revisionRoutes(ctx: AppContext): Router {
     assertMaySee(user, rev.status);
     const dossier = await loadDossier(db, rev.dossierId);
     const siblings = await visibleRevisions(user, db('revision').where({ dossier_id: rev.dossierId }).orderBy('number').select('id', 'number', 'status'), 'status');
-    res.json({ ...rev, dossier, siblings });
+    // A viewer sees approved work only, so never the return a draft answers.
+    const answersReturn = user.role === 'viewer' ? null : await loadReturnAnswered(db, rev);
+    res.json({ ...rev, dossier, siblings, answersReturn });
   });
 
   router.patch('/:id', allow('engineer', 'admin'), async (req, res) => {

@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { DesignDraft, DischargeResult, Requirement } from '../../shared/schema/discharge';
-import type { EvidenceView, Person, RevisionView } from '../../shared/schema/api';
+import type { EvidenceView, Person, ReturnNoteView, RevisionView } from '../../shared/schema/api';
 import type { WaveformAnalysis } from '../../shared/schema/waveform';
 import { notFound } from '../errors';
 
@@ -81,6 +81,21 @@ export async function loadRevision(db: Db, id: number): Promise<Revision> {
     signedPdf: signed ? { sha256: signed.sha256, size: signed.size, createdAt: signed.created_at, signerKind: signed.signer_kind } : null,
   };
 }
+
+/** The reviewer's return of revision `number` of a dossier; null when that revision was not returned. */
+export async function loadReturnNote(db: Db, dossierId: number, number: number): Promise<ReturnNoteView | null> {
+  const row = await db('revision')
+    .join('review_decision', 'review_decision.revision_id', 'revision.id')
+    .where({ 'revision.dossier_id': dossierId, 'revision.number': number, 'review_decision.decision': 'return' })
+    .first('revision.id', 'revision.number', 'review_decision.comment', 'review_decision.reviewer_id', 'review_decision.created_at');
+  if (!row) return null;
+  const who = await people(db, [row.reviewer_id]);
+  return { revisionId: row.id, number: row.number, comment: row.comment, reviewer: who.get(row.reviewer_id) ?? unknownPerson(row.reviewer_id), at: row.created_at };
+}
+
+/** The return a revision answers: that of the revision just before it, when it was returned. */
+export const loadReturnAnswered = (db: Db, rev: Pick<Revision, 'dossierId' | 'number'>) =>
+  rev.number > 1 ? loadReturnNote(db, rev.dossierId, rev.number - 1) : Promise.resolve(null);
 
 export interface DossierSummary {
   id: number;

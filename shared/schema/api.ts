@@ -37,6 +37,16 @@ export interface DecisionView {
   meaning: string | null;
 }
 
+/** A reviewer's return of a revision, as the next revision and the Overview show it. */
+export interface ReturnNoteView {
+  /** The revision that was returned. */
+  revisionId: number;
+  number: number;
+  comment: string;
+  reviewer: Person;
+  at: string;
+}
+
 export interface RevisionView<E extends EvidenceView = EvidenceView> {
   id: number;
   dossierId: number;

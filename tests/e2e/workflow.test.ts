@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { pdfsig } from '../pdf/poppler';
 import { DEMO_PASSWORD } from '../support/test-server';
 import { openBrowser, PHONE, WIDE, type Browser, type WatchedPage } from './browser';
+import { uploadCapture } from '../support/captures';
 
 let browser: Browser;
 beforeAll(async () => {
@@ -20,19 +21,6 @@ async function fill(page: Page, testID: string, text: string) {
 
 async function waitSaved(page: Page) {
   await expect.poll(() => page.getByTestId('save-state').textContent(), { timeout: 15_000 }).toMatch(/^Saved/);
-}
-
-/** Uploads a capture V0·e^(−t/τ) (600 V, pre-trigger plateau) through the page's file picker. */
-async function uploadCapture(page: Page, name: string, tau: number) {
-  const rows = ['Time (s),CH1 (V)'];
-  for (let i = 0; i < 3000; i++) {
-    const t = -0.5 + i * 0.003;
-    rows.push(`${t.toFixed(4)},${(t < 0 ? 600 : 600 * Math.exp(-t / tau)).toFixed(3)}`);
-  }
-  const chooser = page.waitForEvent('filechooser');
-  await page.getByTestId('choose-file').click();
-  await (await chooser).setFiles({ name, mimeType: 'text/csv', buffer: Buffer.from(rows.join('\n')) });
-  await page.getByTestId('evidence-overlay').waitFor({ timeout: 20_000 });
 }
 
 async function openReviewTab(p: WatchedPage, revisionId: number) {
@@ -51,6 +39,10 @@ describe('dossier review story at phone width', () => {
     const products = (await browser.server.ctx.db('product').select('id').orderBy('id')) as Array<{ id: number }>;
     await engineer.page.getByTestId(`dossier-product-${products[1].id}`).click();
     await fill(engineer.page, 'dossier-title', 'Browser story: DC-link at operator access');
+    // The limit is the engineer's entry; nothing is filled in for them.
+    expect(await engineer.page.getByTestId('dossier-req-safeVoltage').inputValue()).toBe('');
+    await fill(engineer.page, 'dossier-req-safeVoltage', '60 V');
+    await fill(engineer.page, 'dossier-req-maxTime', '5 s');
     await engineer.shot('workflow-01-new-dossier-phone');
     await engineer.page.getByTestId('create-dossier').click();
     await engineer.page.getByTestId('revision-screen').waitFor();
@@ -120,6 +112,8 @@ describe('dossier review story at phone width', () => {
     // The old capture was of the 100 kΩ build: it no longer fits the predicted band, so it is replaced.
     await engineer.page.getByTestId('revision-tabs-evidence').click();
     await engineer.page.locator('[data-testid^="remove-evidence-"]').first().click();
+    await engineer.page.getByTestId('remove-evidence-dialog-confirm').click();
+    await engineer.page.getByTestId('evidence-removed').waitFor();
     await engineer.page.getByTestId('evidence-empty').waitFor();
     await uploadCapture(engineer.page, 'bench-rev2.csv', 0.9);
     await engineer.page.getByTestId('revision-tabs-changes').click();

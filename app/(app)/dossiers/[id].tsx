@@ -1,7 +1,8 @@
 import { Link, useLocalSearchParams, useRouter } from 'expo-router';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
 import { singleFaultText } from '../../../components/requirement-editor';
-import { formatWhen } from '../../../components/revision-list';
+import { AuditTrail } from '../../../components/audit-trail';
+import { formatWhen } from '../../../shared/dates';
 import { StatusBadge, VerdictBadge } from '../../../components/status';
 import { Button } from '../../../components/ui/button';
 import { Card } from '../../../components/ui/card';
@@ -72,7 +73,7 @@ export default function DossierScreen() {
               </View>
               <Text style={type.small}>
                 {r.author.name}
-                {r.createdFrom ? ` · started from an earlier revision` : ''} · created {formatWhen(r.createdAt)}
+                {r.createdFrom ? ` · started from revision ${d.revisions.find((o) => o.id === r.createdFrom)?.number ?? '?'}` : ''} · created {formatWhen(r.createdAt)}
                 {r.submittedAt ? ` · submitted ${formatWhen(r.submittedAt)}` : ''}
                 {r.decidedAt ? ` · decided ${formatWhen(r.decidedAt)}` : ''}
               </Text>
@@ -94,15 +95,7 @@ export default function DossierScreen() {
         ))}
       </Card>
 
-      {audit.data ? (
-        <Card title="Audit trail" right={<Text style={[type.label, { color: audit.data.verified ? colors.pass : colors.fail }]} testID="audit-verified">{audit.data.verified ? '✓ Hash chain verified' : `✕ Chain broken at event ${audit.data.firstBroken?.id}`}</Text>}>
-          {audit.data.events.slice(-12).reverse().map((e) => (
-            <Text key={e.id} style={type.small}>
-              {formatWhen(e.createdAt)} · {e.actorName ?? 'system'} · {e.action}
-            </Text>
-          ))}
-        </Card>
-      ) : null}
+      {audit.data ? <AuditTrail report={audit.data} revisions={d.revisions} /> : null}
     </Screen>
   );
 }

@@ -2,7 +2,7 @@ import { Link, useRouter } from 'expo-router';
 import { useMemo, useState } from 'react';
 import { Pressable, StyleSheet, Text, useWindowDimensions, View } from 'react-native';
 import { StatusBadge, VerdictBadge } from '../../../components/status';
-import { formatWhen } from '../../../components/revision-list';
+import { formatWhen } from '../../../shared/dates';
 import { Button } from '../../../components/ui/button';
 import { Card } from '../../../components/ui/card';
 import { Choice } from '../../../components/ui/choice';

@@ -1,10 +1,10 @@
 import { useRouter } from 'expo-router';
 import { useState } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
+import { NEW_PRODUCT, ProductPicker } from '../../../components/product-picker';
 import { RequirementEditor } from '../../../components/requirement-editor';
 import { Button } from '../../../components/ui/button';
 import { Card } from '../../../components/ui/card';
-import { Choice } from '../../../components/ui/choice';
 import { Message } from '../../../components/ui/message';
 import { Screen } from '../../../components/ui/screen';
 import { TextField } from '../../../components/ui/text-field';
@@ -14,66 +14,93 @@ import { dossierCreateSchema, productCreateSchema } from '../../../shared/schema
 import { ApiError, type FieldError } from '../../../hooks/api';
 import { useCreateDossier, useCreateProduct, useProducts } from '../../../hooks/use-dossiers';
 
-const NEW_PRODUCT = 'new';
+// The limit is the user's to enter: nothing is filled in until they type it or pick a preset.
+const EMPTY_REQUIREMENT: RequirementDraft = { safeVoltage: null, maxTime: null, condition: '', reference: '' };
+
+interface Form {
+  productChoice: string;
+  product: { name: string; modelNumber: string; description: string };
+  title: string;
+  requirement: RequirementDraft;
+}
+
+/** What the form says is missing or wrong, checked with the server's own schemas. */
+function problemsOf(form: Form): FieldError[] {
+  const problems: FieldError[] = [];
+  if (!form.productChoice) problems.push({ path: 'productId', message: 'Choose a product or add a new one.' });
+  if (form.productChoice === NEW_PRODUCT) {
+    const p = productCreateSchema.safeParse(form.product);
+    if (!p.success) problems.push(...p.error.issues.map((i) => ({ path: `product.${i.path.join('.')}`, message: i.message })));
+  }
+  const r = dossierCreateSchema.safeParse({ productId: 1, title: form.title, requirement: form.requirement });
+  if (!r.success) problems.push(...r.error.issues.filter((i) => i.path[0] !== 'productId').map((i) => ({ path: i.path.join('.'), message: i.message })));
+  return problems;
+}
 
 export default function NewDossierScreen() {
   const router = useRouter();
   const products = useProducts();
   const createProduct = useCreateProduct();
   const createDossier = useCreateDossier();
-  const [productChoice, setProductChoice] = useState<string>('');
-  const [product, setProduct] = useState({ name: '', modelNumber: '', description: '' });
-  const [title, setTitle] = useState('');
-  const [requirement, setRequirement] = useState<RequirementDraft>({ safeVoltage: 60, maxTime: 5, condition: '', reference: '' });
-  const [errors, setErrors] = useState<FieldError[]>([]);
+  const [form, setForm] = useState<Form>({ productChoice: '', product: { name: '', modelNumber: '', description: '' }, title: '', requirement: EMPTY_REQUIREMENT });
+  // After the first attempt the form re-checks as it is edited, so a message leaves once it is answered.
+  const [attempted, setAttempted] = useState(false);
+  const [serverErrors, setServerErrors] = useState<FieldError[]>([]);
+  const errors = [...(attempted ? problemsOf(form) : []), ...serverErrors];
 
+  const edit = (patch: Partial<Form>) => {
+    setServerErrors([]);
+    setForm((f) => ({ ...f, ...patch }));
+  };
   const errorAt = (path: string) => errors.find((e) => e.path === path)?.message;
   const busy = createProduct.isPending || createDossier.isPending;
+  const cancel = () => (router.canGoBack() ? router.back() : router.replace('/dossiers'));
 
   async function submit() {
-    setErrors([]);
-    const local: FieldError[] = [];
-    if (!productChoice) local.push({ path: 'productId', message: 'Choose a product or add a new one.' });
-    if (productChoice === NEW_PRODUCT) {
-      const p = productCreateSchema.safeParse(product);
-      if (!p.success) local.push(...p.error.issues.map((i) => ({ path: `product.${i.path.join('.')}`, message: i.message })));
-    }
-    const r = dossierCreateSchema.safeParse({ productId: 1, title, requirement });
-    if (!r.success) local.push(...r.error.issues.filter((i) => i.path[0] !== 'productId').map((i) => ({ path: i.path.join('.'), message: i.message })));
-    if (local.length) return setErrors(local);
+    setAttempted(true);
+    setServerErrors([]);
+    if (problemsOf(form).length) return;
     try {
-      const productId = productChoice === NEW_PRODUCT ? (await createProduct.mutateAsync(productCreateSchema.parse(product))).id : Number(productChoice);
-      const dossier = await createDossier.mutateAsync(dossierCreateSchema.parse({ productId, title, requirement }));
+      const productId = form.productChoice === NEW_PRODUCT ? (await createProduct.mutateAsync(productCreateSchema.parse(form.product))).id : Number(form.productChoice);
+      const dossier = await createDossier.mutateAsync(dossierCreateSchema.parse({ productId, title: form.title, requirement: form.requirement }));
       router.replace(`/revisions/${dossier.revisions[0].id}`);
     } catch (err) {
-      if (err instanceof ApiError) setErrors(err.fields.length ? err.fields : [{ path: '', message: err.message }]);
+      if (err instanceof ApiError) setServerErrors(err.fields.length ? err.fields : [{ path: '', message: err.message }]);
     }
   }
 
-  const options = [...(products.data ?? []).map((p) => ({ value: String(p.id), label: `${p.name} (${p.modelNumber})` })), { value: NEW_PRODUCT, label: '+ New product' }];
-
+  const general = errors.find((e) => e.path === '');
   return (
-    <Screen title="New dossier" subtitle="What must be proven, for which product." testID="new-dossier-screen">
+    <Screen
+      title="New dossier"
+      subtitle="What must be proven, for which product."
+      testID="new-dossier-screen"
+      actions={<Button label="Cancel" variant="quiet" testID="new-dossier-cancel" onPress={cancel} />}
+    >
       <Card title="Product">
-        <Choice label="Equipment under assessment" testID="dossier-product" options={options} value={productChoice} onChange={setProductChoice} />
-        {errorAt('productId') ? <Message tone="error" text={errorAt('productId')!} /> : null}
-        {productChoice === NEW_PRODUCT ? (
+        {products.isError ? <Message tone="error" text={products.error.message} /> : null}
+        <ProductPicker products={products.data ?? []} value={form.productChoice} onChange={(productChoice) => edit({ productChoice })} testID="dossier-product" />
+        {errorAt('productId') ? <Message tone="error" text={errorAt('productId')!} testID="dossier-product-error" /> : null}
+        {form.productChoice === NEW_PRODUCT ? (
           <View style={styles.row}>
-            <TextField label="Product name" testID="product-name" value={product.name} onChangeText={(name) => setProduct({ ...product, name })} error={errorAt('product.name')} />
-            <TextField label="Model number" testID="product-model" value={product.modelNumber} onChangeText={(modelNumber) => setProduct({ ...product, modelNumber })} error={errorAt('product.modelNumber')} />
-            <TextField label="Description" testID="product-description" value={product.description} onChangeText={(description) => setProduct({ ...product, description })} />
+            <TextField label="Product name" testID="product-name" value={form.product.name} onChangeText={(name) => edit({ product: { ...form.product, name } })} error={errorAt('product.name')} />
+            <TextField label="Model number" testID="product-model" value={form.product.modelNumber} onChangeText={(modelNumber) => edit({ product: { ...form.product, modelNumber } })} error={errorAt('product.modelNumber')} />
+            <TextField label="Description" testID="product-description" value={form.product.description} onChangeText={(description) => edit({ product: { ...form.product, description } })} />
           </View>
         ) : null}
       </Card>
       <Card title="Dossier">
-        <TextField label="Title" testID="dossier-title" placeholder="e.g. DC-link residual voltage at service access" value={title} onChangeText={setTitle} error={errorAt('title')} />
+        <View style={styles.row}>
+          <TextField label="Title" testID="dossier-title" placeholder="e.g. DC-link residual voltage at service access" value={form.title} onChangeText={(title) => edit({ title })} error={errorAt('title')} />
+        </View>
       </Card>
-      <Text style={type.small}>The limit is yours to enter from the edition of the standard you work to; presets are starting points only.</Text>
-      <RequirementEditor value={requirement} onChange={setRequirement} testIDPrefix="dossier-req" serverErrors={errors} />
-      {errors.find((e) => e.path === '') ? <Message tone="error" text={errors.find((e) => e.path === '')!.message} /> : null}
-      {errors.length && !errors.find((e) => e.path === '') ? <Message tone="error" text="Some fields need attention (marked above)." testID="new-dossier-errors" /> : null}
+      <Text style={type.small}>The limit is yours to enter from the edition of the standard you work to; the typical requirements are starting points to verify.</Text>
+      <RequirementEditor value={form.requirement} onChange={(requirement) => edit({ requirement })} testIDPrefix="dossier-req" serverErrors={errors} presetsOpen />
+      {general ? <Message tone="error" text={general.message} /> : null}
+      {errors.length && !general ? <Message tone="error" text="Some fields need attention (marked above)." testID="new-dossier-errors" /> : null}
       <View style={styles.actions}>
         <Button label="Create dossier and start revision 1" testID="create-dossier" onPress={submit} busy={busy} />
+        <Button label="Cancel" variant="secondary" testID="new-dossier-cancel-bottom" onPress={cancel} disabled={busy} />
       </View>
     </Screen>
   );
@@ -81,5 +108,5 @@ export default function NewDossierScreen() {
 
 const styles = StyleSheet.create({
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
-  actions: { alignSelf: 'flex-start' },
+  actions: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
 });

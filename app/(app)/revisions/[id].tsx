@@ -4,6 +4,7 @@ import { StyleSheet, Text, View } from 'react-native';
 import { RevisionChanges } from '../../../components/revision-changes';
 import { RevisionDesign } from '../../../components/revision-design';
 import { RevisionEvidence } from '../../../components/revision-evidence';
+import { ReturnNote } from '../../../components/return-note';
 import { RevisionReview } from '../../../components/revision-review';
 import { StatusBadge, VerdictBadge } from '../../../components/status';
 import { Tabs } from '../../../components/tabs';
@@ -37,7 +38,8 @@ export default function RevisionScreen() {
       title={`Revision ${rev.number}`}
       subtitle={`${rev.dossier.title} · ${rev.dossier.product.name}`}
       testID="revision-screen"
-      showCaution
+      // The Design tab's results carry the caution line themselves; once on a screen is enough.
+      showCaution={tab !== 'design'}
       actions={
         <a href={`/api/revisions/${rev.id}/dossier.pdf`} download={`voltfall-dossier-${rev.dossierId}-rev${rev.number}.pdf`} data-testid="export-pdf" style={{ color: colors.surface, backgroundColor: colors.brand, fontFamily: fonts.semibold, padding: '11px 16px', borderRadius: 8, textDecoration: 'none' }}>
           {rev.status === 'approved' ? 'Export signed PDF' : 'Export draft PDF'}
@@ -51,6 +53,7 @@ export default function RevisionScreen() {
           All revisions of this dossier
         </Link>
       </View>
+      {rev.answersReturn ? <ReturnNote note={rev.answersReturn} toReader={rev.author.id === me.id} testID="return-note" /> : null}
       <Tabs tabs={TABS} value={tab} onChange={setTab} testID="revision-tabs" />
       {tab === 'design' ? <RevisionDesign key={`${rev.id}-${rev.status}`} revision={rev} me={me} /> : null}
       {tab === 'evidence' ? <RevisionEvidence revision={rev} me={me} /> : null}
