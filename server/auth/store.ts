@@ -29,6 +29,7 @@ export interface SessionRow {
 }
 
 export const insertSession = (db: Db, row: SessionRow) => db('session').insert(row);
+export const userSessions = (db: Db, userId: string) => db<SessionRow>('session').where({ user_id: userId });
 
 /** The session and its user in one indexed lookup: the check every signed-in request makes. */
 export function findSessionWithUser(db: Db, id: string) {
