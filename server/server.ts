@@ -10,6 +10,8 @@ import { openDatabase } from './db/knex';
 import { seedDemo } from './db/seed';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { MailSender } from './mail/mailer';
+import { DossierPdfService } from './dossier-pdf/domain';
+import { startSigning } from './signing/service';
 
 export interface RunningServer {
   ctx: AppContext;
@@ -31,6 +33,8 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const smtpUrl = config.smtp.url ?? fakeSmtp!.url;
   const mail = new MailSender(db, smtpUrl, config.smtp.from, log);
   mail.start();
+  // Outside production this also starts the local time-stamping authority on loopback.
+  const signing = await startSigning(config);
 
   const ctx: AppContext = {
     config,
@@ -38,15 +42,17 @@ export async function startServer(config: Config): Promise<RunningServer> {
     lucia: createLucia(db, config.production),
     log,
     kickMail: () => void mail.flush(),
+    signing,
     baseUrl: config.publicUrl ?? `http://localhost:${config.port}`,
   };
-  const app = createApp(ctx);
+  const pdf = new DossierPdfService(ctx);
+  const app = createApp(ctx, pdf);
   const server = await new Promise<Server>((resolve) => {
     const s = app.listen(config.port, config.host, () => resolve(s));
   });
   const port = (server.address() as AddressInfo).port;
   if (!config.publicUrl) ctx.baseUrl = `http://localhost:${port}`;
-  log.info({ port, dataDir: config.dataDir, fakeSmtp: fakeSmtp?.url ?? null }, 'Voltfall is listening');
+  log.info({ port, dataDir: config.dataDir, fakeSmtp: fakeSmtp?.url ?? null, localTsa: signing.localTsaUrl }, 'Voltfall is listening');
   return {
     ctx,
     server,
@@ -58,6 +64,8 @@ export async function startServer(config: Config): Promise<RunningServer> {
       server.closeAllConnections();
       await mail.stop();
       await fakeSmtp?.close();
+      await pdf.close();
+      await signing.close();
       await db.destroy();
     },
   };

@@ -1,20 +1,18 @@
 import { Router } from 'express';
-import type { Knex } from 'knex';
 import { decisionSchema, reviewCommentSchema } from '../../shared/schema/workflow';
 import { allow, currentUser } from '../auth/middleware';
 import type { AppContext } from '../context';
 import { validationError } from '../errors';
 import { parseId } from '../params';
-import type { Revision } from '../revisions/store';
-import { addReviewComment, decideRevision } from './domain';
+import { addReviewComment, decideRevision, type ApprovalSigner } from './domain';
 
-export function reviewRoutes(ctx: AppContext, afterApprove?: (trx: Knex.Transaction, rev: Revision) => Promise<void>): Router {
+export function reviewRoutes(ctx: AppContext, signer?: ApprovalSigner): Router {
   const router = Router();
 
   router.post('/revisions/:id/decision', allow('reviewer'), async (req, res) => {
     const parsed = decisionSchema.safeParse(req.body);
     if (!parsed.success) throw validationError(parsed.error);
-    res.json(await decideRevision(ctx, currentUser(req), parseId(req.params.id), parsed.data, afterApprove));
+    res.json(await decideRevision(ctx, currentUser(req), parseId(req.params.id), parsed.data, signer));
   });
 
   router.post('/revisions/:id/comments', allow('reviewer', 'engineer', 'admin'), async (req, res) => {
