@@ -261,10 +261,11 @@ export function inputLabel(path: string): string {
     const spec = ALL_DESIGN_FIELDS.find((f) => f.path === inner);
     return spec ? `Active discharge: ${spec.label}` : 'Active discharge';
   }
-  const snubber = /^snubbers\[(\d+)]\.(\w+)$/.exec(inner);
+  const snubber = /^snubbers(?:\[(\d+)]|\.(\d+))\.(\w+)$/.exec(inner);
   if (snubber) {
-    const spec = [...SNUBBER_PART_FIELDS, ...SNUBBER_OPERATING_FIELDS, ...Object.values(SNUBBER_KIND_FIELDS).flat()].find((f) => f.key === snubber[2]);
-    return `Snubber #${Number(snubber[1]) + 1}: ${spec ? spec.label : snubber[2]}`;
+    const [, bracketed, dotted, key] = snubber;
+    const spec = [...SNUBBER_PART_FIELDS, ...SNUBBER_OPERATING_FIELDS, ...Object.values(SNUBBER_KIND_FIELDS).flat()].find((f) => f.key === key);
+    return `Snubber #${Number(bracketed ?? dotted) + 1}: ${spec ? spec.label : key}`;
   }
   const group = DESIGN_GROUPS.find((g) => inner === g.key || inner.startsWith(`${g.key}.`));
   if (!group) return path;

@@ -48,7 +48,7 @@ export function chartSection(model: DossierPdfModel): Content[] {
   }
   return [
     {
-      // Heading, caption and chart stay on one page.
+      // Heading, caption, chart and its table stay on one page.
       stack: [
         { text: '4  Decay chart', style: 'h1', tocItem: true, tocMargin: [0, 3, 0, 0] },
         {
@@ -58,10 +58,10 @@ export function chartSection(model: DossierPdfModel): Content[] {
           margin: [0, 0, 0, 6],
         },
         chartSvg(model, series, 300 + 11 * series.length),
+        instantsTable(model),
       ],
       unbreakable: true,
     } as Content,
-    instantsTable(model),
   ];
 }
 

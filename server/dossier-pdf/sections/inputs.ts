@@ -14,7 +14,8 @@ const DIGITS = 4;
 type Row = [string, string];
 
 const valueOf = (spec: Pick<FieldSpec, 'kind' | 'optional'>, value: unknown): string => {
-  if (typeof value === 'number') return formatField(spec.kind, value, DIGITS);
+  // Typographic minus, as in the rest of the dossier (−25 °C).
+  if (typeof value === 'number') return formatField(spec.kind, value, DIGITS).replace(/^-/, '−');
   return spec.optional ? '— (none entered)' : '— (not entered)';
 };
 
