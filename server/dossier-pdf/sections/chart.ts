@@ -19,10 +19,10 @@ function measuredPoints(analysis: WaveformAnalysis) {
   return analysis.trace.map((p) => ({ t: p.t - t0, v: p.v }));
 }
 
-/** The calculated curves, and the given captures each in the colour of its place among all captures. */
-export function chartSeries(model: DossierPdfModel, captures: readonly Analysed[]): ChartSeries[] {
+/** The calculated curves, and every capture in the colour of its place among the captures. */
+function chartSeries(model: DossierPdfModel): ChartSeries[] {
   const { results } = model.revision;
-  const all = waveforms(model);
+  const captures = waveforms(model);
   const series: ChartSeries[] = [];
   if (results.curve.length) {
     series.push(
@@ -31,18 +31,18 @@ export function chartSeries(model: DossierPdfModel, captures: readonly Analysed[
     );
   }
   for (const e of captures) {
-    series.push({ label: `Measured: ${e.originalName}`, kind: 'measured', color: traceColour(all.indexOf(e)), width: 1, points: measuredPoints(e.analysis) });
+    series.push({ label: `Measured: ${e.originalName}`, kind: 'measured', color: traceColour(captures.indexOf(e)), width: 1, points: measuredPoints(e.analysis) });
   }
   return series;
 }
 
-export function chartSvg(model: DossierPdfModel, series: ChartSeries[], height: number): Content {
+function chartSvg(model: DossierPdfModel, series: ChartSeries[], height: number): Content {
   const req = model.dossier.requirement;
   return { svg: decayChartSvg({ series, safeVoltage: req.safeVoltage, maxTime: req.maxTime, width: CONTENT_WIDTH, height, fontFamily: FONT }), width: CONTENT_WIDTH };
 }
 
 export function chartSection(model: DossierPdfModel): Content[] {
-  const series = chartSeries(model, waveforms(model));
+  const series = chartSeries(model);
   if (!series.length) {
     return keepWithHeadings([heading('4  Decay chart'), { text: 'No curve: the design inputs are incomplete and no waveform was attached.', italics: true }]);
   }

@@ -1,5 +1,6 @@
-// Section 5: every file with its SHA-256, then each capture on its own: analysis, the notes on the
-// probe and on referring the measurement to the requirement, and its overlay plot in its colour.
+// Section 5: every file with its SHA-256, then each capture: analysis and the notes on the probe and
+// on referring the measurement to the requirement, marked with the colour of its line on the decay
+// chart (one overlay of every capture, rather than a chart each: the plots dominate the build time).
 import type { Content, TableCell } from 'pdfmake/interfaces';
 import type { Requirement } from '../../../shared/schema/discharge';
 import type { WaveformAnalysis } from '../../../shared/schema/waveform';
@@ -7,7 +8,7 @@ import { captureOf, isEvidenceCheck, type CheckWithEvidence } from '../checks-by
 import { bytes, plain, quantity, timestamp } from '../format';
 import { caption, COLOURS, facts, heading, keepWithHeadings, MONO, splittable, subheading, swatch, traceColour } from '../layout';
 import type { DossierPdfModel, EvidenceEntry } from '../model';
-import { chartSeries, chartSvg, waveforms, type Analysed } from './chart';
+import { waveforms, type Analysed } from './chart';
 
 const KIND_WORDS: Record<EvidenceEntry['kind'], string> = {
   waveform: 'Waveform',
@@ -90,12 +91,18 @@ function analysisFacts(a: WaveformAnalysis, req: Requirement): Content {
   );
 }
 
-/** One capture, kept on one page: its facts, notes and plot read together. */
+/** One capture, kept on one page: its facts and notes read together. */
 function captureBlock(model: DossierPdfModel, e: Analysed, index: number, checks: readonly CheckWithEvidence[]): Content {
   const req = model.dossier.requirement;
   const notes = [...e.analysis.notes, ...checks.map((c) => `${c.label}: ${c.detail}`)];
   const out: Content[] = [
-    { columns: [swatch(traceColour(index)), { text: `Capture ${index + 1}: ${e.originalName}`, bold: true, fontSize: 9.5, width: '*' }], margin: [0, 8, 0, 1] },
+    {
+      columns: [
+        swatch(traceColour(index)),
+        { text: [{ text: `Capture ${index + 1}: ${e.originalName}`, bold: true, fontSize: 9.5 }, { text: '   its line on the decay chart (section 4) has this colour', color: COLOURS.muted, fontSize: 7.5 }], width: '*' },
+      ],
+      margin: [0, 8, 0, 1],
+    },
     { text: [{ text: 'SHA-256  ', color: COLOURS.muted }, { text: e.sha256, font: MONO }], fontSize: 7.5, margin: [0, 0, 0, 3] },
     analysisFacts(e.analysis, req),
   ];
@@ -105,7 +112,6 @@ function captureBlock(model: DossierPdfModel, e: Analysed, index: number, checks
   out.push(
     { text: 'Probe, referral and analysis notes', bold: true, margin: [0, 0, 0, 2] },
     notes.length ? { ul: notes, margin: [0, 0, 0, 6] } : { text: 'None.', italics: true, margin: [0, 0, 0, 6] },
-    chartSvg(model, chartSeries(model, [e]), 200),
   );
   return { stack: out, unbreakable: true, margin: [0, 0, 0, 8] };
 }
