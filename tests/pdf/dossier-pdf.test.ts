@@ -196,8 +196,10 @@ describe('an approved revision', () => {
     expect(text).toContain('Capacitance per unit 220 µF');
     // The notes' markdown is typeset: the words are there, the markup is not.
     expect(text).toContain('Bleeder: 3 strings of 3 × 7.5 kΩ');
-    const notesPage = flat(await pdftext(file, 4)) + flat(await pdftext(file, 3));
-    expect(notesPage).not.toMatch(/\*\*|^#|## /m);
+    const toc = flat(await pdftext(file, 2));
+    const notesPage = flat(await pdftext(file, Number(/Engineer’s notes (\d+)/.exec(toc)![1])));
+    expect(notesPage).toContain('Design Bleeder: 3 strings');
+    expect(notesPage).not.toMatch(/\*\*|`|## /);
   });
 
   it('lists the sections in a table of contents with their pages', async () => {

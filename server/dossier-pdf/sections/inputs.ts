@@ -47,6 +47,13 @@ function snubberRows(s: SnubberDraft): Row[] {
   ];
 }
 
+/** Whether the requirement asks for the single-fault condition, where the stored requirement says either way. */
+function singleFaultRow(req: object): Row[] {
+  const asked = (req as { singleFault?: boolean | null }).singleFault;
+  if (asked === undefined || asked === null) return [];
+  return [['Single-fault condition', asked ? 'Assessed: one fault at a time in the discharge network' : 'Not asked by the requirement']];
+}
+
 export function inputsSection(model: DossierPdfModel): Content[] {
   const req = model.dossier.requirement;
   const content: Content[] = [
@@ -57,6 +64,7 @@ export function inputsSection(model: DossierPdfModel): Content[] {
         ['Standard and clause', { text: req.reference || '— (not entered)', bold: true }],
         ['Condition', req.condition || '— (not entered)'],
         ...rowsOf(REQUIREMENT_FIELDS, req),
+        ...singleFaultRow(req),
       ],
       190,
     ),
