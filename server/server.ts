@@ -46,6 +46,9 @@ export async function startServer(config: Config): Promise<RunningServer> {
     baseUrl: config.publicUrl ?? `http://localhost:${config.port}`,
   };
   const pdf = new DossierPdfService(ctx);
+  // Tests start many servers and most never render a PDF; a production server should not make its first
+  // approval wait for the worker to load.
+  if (config.production) pdf.warm();
   const app = createApp(ctx, pdf);
   const server = await new Promise<Server>((resolve) => {
     const s = app.listen(config.port, config.host, () => resolve(s));

@@ -67,6 +67,11 @@ export class DossierPdfService {
     return { pdf, sha256: row.sha256 };
   }
 
+  /** Loads the PDF worker ahead of the first render (a production server does this at start-up). */
+  warm(): void {
+    this.pool.warm();
+  }
+
   close(): Promise<void> {
     return this.pool.close();
   }

@@ -30,6 +30,11 @@ export class PdfRenderPool {
     });
   }
 
+  /** Starts the worker now, so the first approval does not wait for it to load its modules. */
+  warm(): void {
+    this.worker ??= this.start();
+  }
+
   async close(): Promise<void> {
     const worker = this.worker;
     this.worker = null;

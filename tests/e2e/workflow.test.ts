@@ -41,7 +41,8 @@ async function openReviewTab(p: WatchedPage, revisionId: number) {
 }
 
 describe('dossier review story at phone width', () => {
-  it('create → return with a comment → revision 2 → diff → approve', async () => {
+  // The approval signs and timestamps the dossier in the PDF worker, which this server starts for it.
+  it('create → return with a comment → revision 2 → diff → approve', { timeout: 240_000 }, async () => {
     const engineer = await browser.page(PHONE);
     await engineer.signIn('engineer');
     await engineer.page.getByTestId('nav-dossiers').click();
