@@ -17,7 +17,7 @@ import { reviewsSection } from './sections/review';
 import { signatureSection } from './sections/signature';
 import { worstCaseSection } from './sections/worst-case';
 import { addSignaturePlaceholder, signPdf, type SignOptions } from './sign';
-import { NOT_APPROVED_MARK, STATUS_SHORT } from './wording';
+import { CAUTION_LINE, NOT_APPROVED_MARK, STATUS_SHORT } from './wording';
 
 export type { SignOptions } from './sign';
 
@@ -124,7 +124,7 @@ function documentDefinition(model: DossierPdfModel, signingTime: Date): TDocumen
   const running = `${product.name} (${product.modelNumber}) · ${dossier.title} · Revision ${revision.number}`;
   return {
     pageSize: 'A4',
-    pageMargins: [40, approved ? 52 : 62, 40, 44],
+    pageMargins: [40, approved ? 52 : 62, 40, 56],
     info: {
       title: `${dossier.title} — revision ${revision.number}`,
       author: model.organisation,
@@ -154,10 +154,16 @@ function documentDefinition(model: DossierPdfModel, signingTime: Date): TDocumen
       ],
     }),
     footer: (currentPage: number, pageCount: number) => ({
-      margin: [40, 14, 40, 0],
-      columns: [
-        { text: `${model.organisation} · generated ${timestamp(model.generatedAt)} · content hash ${revision.contentHash.slice(0, 16)}…`, fontSize: 7, color: '#5f6368' },
-        { text: `Page ${currentPage} of ${pageCount}`, fontSize: 7.5, alignment: 'right', width: 'auto' },
+      margin: [40, 12, 40, 0],
+      stack: [
+        // Every page that shows a result carries the caution line; the cover has the cautions in full.
+        ...(currentPage === 1 ? [] : [{ text: CAUTION_LINE, fontSize: 6.5, color: '#b71c1c', margin: [0, 0, 0, 3] } as Content]),
+        {
+          columns: [
+            { text: `${model.organisation} · generated ${timestamp(model.generatedAt)} · content hash ${revision.contentHash.slice(0, 16)}…`, fontSize: 7, color: '#5f6368' },
+            { text: `Page ${currentPage} of ${pageCount}`, fontSize: 7.5, alignment: 'right', width: 'auto' },
+          ],
+        },
       ],
     }),
     ...(approved

@@ -10,6 +10,9 @@ export const CAUTIONS = [
   'Limits shown are the values the user entered; check them against the current edition of the applicable standard and local regulations, and defer to the certification body or licensed assessor.',
 ] as const;
 
+/** The short form for the foot of every page after the cover. */
+export const CAUTION_LINE = `${CAUTIONS[0]} Calculations support, never replace, measurement and a qualified person’s judgement; limits are the user’s entries — see the cautions on the cover.`;
+
 export const NOT_APPROVED_MARK = 'NOT APPROVED — not for certification';
 export const DEVELOPMENT_MARK = 'Development certificate — not for certification';
 

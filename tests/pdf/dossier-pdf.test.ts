@@ -249,7 +249,7 @@ describe('an approved revision', () => {
     expect(cover).toContain('IEC 61800-5-1 (edition and clause to be confirmed by the compliance engineer)');
   });
 
-  it('has product, dossier, revision, status, page N of M and the UTC generation time on every page', async () => {
+  it('has product, dossier, revision, status, page N of M, the UTC generation time and the caution line on every page', async () => {
     expect(pages).toBeGreaterThanOrEqual(8);
     for (let page = 1; page <= pages; page += 1) {
       const text = flat(await pdftext(file, page));
@@ -257,6 +257,8 @@ describe('an approved revision', () => {
       expect(text).toContain('Status: Approved');
       expect(text).toContain(`Page ${page} of ${pages}`);
       expect(text).toContain('generated 2025-03-12 11:30:05 UTC');
+      // Results are on every page but the cover, so the caution line is too (the cover has them in full).
+      if (page > 1) expect(text).toContain('Stored energy in DC-link capacitors can kill. Calculations support, never replace, measurement');
     }
   });
 
