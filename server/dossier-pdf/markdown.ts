@@ -37,6 +37,10 @@ function inline(tokens: readonly Token[] | undefined, style: Record<string, unkn
       case 'br':
         runs.push({ text: '\n', ...style });
         break;
+      case 'html':
+        // Tags are markup, not content: keep what they enclose.
+        runs.push({ text: decode(stripTags(t.raw)), ...style });
+        break;
       case 'text': {
         const text = t as Tokens.Text;
         if (text.tokens?.length) runs.push(...inline(text.tokens, style));
@@ -52,6 +56,8 @@ function inline(tokens: readonly Token[] | undefined, style: Record<string, unkn
 
 const ENTITIES: Record<string, string> = { '&amp;': '&', '&lt;': '<', '&gt;': '>', '&quot;': '"', '&#39;': "'" };
 const decode = (text: string) => text.replace(/&(amp|lt|gt|quot|#39);/g, (m) => ENTITIES[m]);
+
+const stripTags = (html: string) => html.replace(/<[^>]*>/g, '');
 
 const shortEnough = (raw: string) => Math.ceil(raw.length / LINE_CHARS) + raw.split('\n').length - 1 <= SHORT_LINES;
 
@@ -92,6 +98,8 @@ function block(t: Token): Content[] {
       return [{ canvas: [{ type: 'line', x1: 0, y1: 2, x2: 200, y2: 2, lineWidth: 0.5, lineColor: COLOURS.rule }], margin: [0, 2, 0, 6] }];
     case 'space':
       return [];
+    case 'html':
+      return stripTags(t.raw).trim() ? [{ text: decode(stripTags(t.raw).trim()), margin: [0, 0, 0, 4] }] : [];
     default:
       return [{ text: decode(t.raw.trim()), margin: [0, 0, 0, 4] }];
   }

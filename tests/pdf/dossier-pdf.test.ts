@@ -308,6 +308,39 @@ describe('evidence checks named per capture (ids "measured-discharge:<12 hex>")'
   });
 });
 
+describe('the engineer’s notes', () => {
+  it('are typeset from markdown: headings, lists, bold, code and html leave no markup behind', async () => {
+    const { model } = servoDriveDossier({ status: 'draft' });
+    model.revision.notes = [
+      '# Discharge path',
+      'The **bleeder** is `R5/R6`, *two* strings.',
+      '',
+      '1. First step',
+      '2. Second step with **emphasis**',
+      '',
+      '- a bullet',
+      '',
+      '```',
+      'V(t) = V0 * exp(-t / tau)',
+      '```',
+      '',
+      'Checked on <b>three</b> units.',
+    ].join('\n');
+    model.diff = null;
+    const file = join(work, 'notes.pdf');
+    writeFileSync(file, await renderDossierPdf(model));
+    const toc = flat(await pdftext(file, 2));
+    const page = flat(await pdftext(file, Number(/Engineer’s notes (\d+)/.exec(toc)![1])));
+    expect(page).toContain('Discharge path The bleeder is R5/R6, two strings.');
+    // Numbered: pdftotext -raw prints each marker after its item.
+    expect(page).toMatch(/First step 1\. Second step with emphasis 2\./);
+    expect(page).toContain('a bullet');
+    expect(page).toContain('V(t) = V0 * exp(-t / tau)');
+    expect(page).toContain('Checked on three units.');
+    expect(page).not.toMatch(/\*\*|`|^# |<b>|<\/b>/);
+  });
+});
+
 describe.each(['draft', 'in_review', 'returned'] as const)('a %s revision', (status) => {
   let file: string;
   let pages: number;
