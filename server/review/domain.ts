@@ -4,6 +4,7 @@ import type { SignedInUser } from '../auth/middleware';
 import type { AppContext } from '../context';
 import type { PendingDecision } from '../dossier-pdf/build-model';
 import type { PreparedDossier } from '../dossier-pdf/domain';
+import { DECISION_MEANINGS } from '../dossier-pdf/wording';
 import { conflict, forbidden } from '../errors';
 import { queueMail } from '../mail/mailer';
 import { loadDossier, loadRevision, revisionContentHash, type Revision } from '../revisions/store';
@@ -12,8 +13,6 @@ import { loadDossier, loadRevision, revisionContentHash, type Revision } from '.
 export interface ApprovalSigner {
   prepareApproval(revisionId: number, pending: PendingDecision): Promise<PreparedDossier>;
 }
-
-const MEANING: Record<Decision['decision'], string> = { approve: 'approved as reviewer', return: 'returned' };
 
 /**
  * decideRevision: assert reviewer and not the author, and that an approval passes every check; for an
@@ -33,7 +32,7 @@ export async function decideRevision(ctx: AppContext, user: SignedInUser, revisi
     at: new Date().toISOString(),
     signerName: user.name,
     signerRole: user.role,
-    meaning: MEANING[decision.decision],
+    meaning: DECISION_MEANINGS[decision.decision],
   };
   const dossierPdf = decision.decision === 'approve' && signer ? await signer.prepareApproval(revisionId, pending) : null;
   try {

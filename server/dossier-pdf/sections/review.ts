@@ -24,7 +24,7 @@ export function reviewsSection(model: DossierPdfModel): Content[] {
             { text: DECISION_WORDS[r.decision], bold: true, color: r.decision === 'approve' ? COLOURS.pass : COLOURS.fail },
             `   Revision ${r.revisionNumber ?? model.revision.number}   ${dateTime(r.at)}   `,
             { text: signer.name, bold: true },
-            ` (${signer.role}) <${r.reviewer.email}>`,
+            ` (${signer.role}) <${r.reviewer.email}> — ${signer.meaning}`,
           ],
         },
         { text: [{ text: 'Content hash at decision  ', color: COLOURS.muted, fontSize: 7.5 }, { text: r.contentHash, font: MONO, fontSize: 7.5 }] },
