@@ -3,7 +3,7 @@
 // authority's certificate (extended key usage timeStamping, critical) and a CRL from the root.
 // Every name says "not for certification"; the keys protect nothing of value.
 import { randomBytes, webcrypto } from 'node:crypto';
-import { mkdir, readFile, rename, writeFile } from 'node:fs/promises';
+import { link, mkdir, readFile, rename, rm, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import * as asn1js from 'asn1js';
 import * as pkijs from 'pkijs';
@@ -75,22 +75,33 @@ export function loadOrCreateDevPki(dataDir: string): Promise<DevPki> {
 }
 
 async function readOrCreate(dataDir: string, file: string): Promise<DevPki> {
-  let pki = await readPki(file);
-  let changed = false;
-  if (!pki) {
-    pki = await createPki();
-    changed = true;
-  } else if (crlDue(pki.crl)) {
-    pki.crl = await issueCrl(pki.root);
-    changed = true;
-  }
-  if (changed) {
+  const existing = await readPki(file);
+  if (!existing) {
     await mkdir(dataDir, { recursive: true });
-    const temp = `${file}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`;
-    await writeFile(temp, JSON.stringify(store(pki)), { mode: 0o600 });
-    await rename(temp, file);
+    // link() refuses to replace a file: when two processes create at once, both end up with the first
+    // one's keys, not with a root that no longer matches the stored certificates.
+    const temp = await writeTemp(file, await createPki());
+    try {
+      await link(temp, file);
+    } catch (error) {
+      if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
+    } finally {
+      await rm(temp, { force: true });
+    }
+    return (await readPki(file))!;
   }
-  return pki;
+  if (crlDue(existing.crl)) {
+    // Same keys, a fresh CRL: replacing the file is safe whoever wins.
+    existing.crl = await issueCrl(existing.root);
+    await rename(await writeTemp(file, existing), file);
+  }
+  return existing;
+}
+
+async function writeTemp(file: string, pki: DevPki): Promise<string> {
+  const temp = `${file}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`;
+  await writeFile(temp, JSON.stringify(store(pki)), { mode: 0o600 });
+  return temp;
 }
 
 async function readPki(file: string): Promise<DevPki | null> {

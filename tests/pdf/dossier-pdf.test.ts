@@ -421,6 +421,20 @@ describe('the development PKI', () => {
   });
 });
 
+describe('the development PKI created by two processes at once', () => {
+  it('ends with one root that both processes use', async () => {
+    const dataDir = join(work, 'pki-race');
+    const script = join(process.cwd(), 'tests', 'pdf', 'print-dev-root.ts');
+    const both = await Promise.all([1, 2].map(() => run('node', ['--import', 'tsx', script, dataDir])));
+    // The stored root, fingerprinted by OpenSSL.
+    const rootFile = join(work, 'pki-race-root.pem');
+    writeFileSync(rootFile, pem('CERTIFICATE', (await loadOrCreateDevPki(dataDir)).root.cert));
+    const { stdout } = await run('openssl', ['x509', '-in', rootFile, '-noout', '-fingerprint', '-sha256']);
+    const stored = stdout.trim().split('=')[1];
+    expect(both.map((r) => r.stdout.trim())).toEqual([stored, stored]);
+  });
+});
+
 describe('a first draft with missing inputs, no evidence and a broken audit chain', () => {
   it('still renders, and says what is missing (by label) and that the chain is broken', async () => {
     const { model } = servoDriveDossier({ status: 'draft' });
