@@ -1,7 +1,7 @@
 import { useState, type ReactNode } from 'react';
 import { StyleSheet, Text, View, type LayoutChangeEvent } from 'react-native';
 import { colors, radius, space, type } from '../constants/theme';
-import { ACTIVE_FIELDS, DESIGN_GROUPS, getPath, type FieldKind, type FieldSpec } from '../shared/design-fields';
+import { ACTIVE_FIELDS, DESIGN_GROUPS, formLabel, getPath, type FieldKind, type FieldSpec } from '../shared/design-fields';
 import { busFromMains } from '../shared/engine';
 import type { DesignDraft } from '../shared/schema/discharge';
 import { formatQuantity } from '../shared/units';
@@ -102,7 +102,7 @@ export function DesignEditor({ value, onChange, readOnly, testIDPrefix = 'design
   const field = (spec: FieldSpec, keyPrefix = '') => (
     <QuantityField
       key={`${keyPrefix}${spec.path}`}
-      label={spec.label}
+      label={formLabel(spec)}
       kind={spec.kind}
       value={numberAt(value, spec.path)}
       onChange={(v) => onChange(withField(value, spec.path, v))}
@@ -119,7 +119,7 @@ export function DesignEditor({ value, onChange, readOnly, testIDPrefix = 'design
         <Message tone="error" text={elsewhere.map((e) => `${e.path}: ${e.message}`).join(' · ')} testID={`${testIDPrefix}-other-errors`} />
       ) : null}
       {DESIGN_GROUPS.map((group) => (
-        <Card key={group.key} title={group.title} testID={`${testIDPrefix}-group-${group.key}`}>
+        <Card key={group.key} title={formLabel(group)} testID={`${testIDPrefix}-group-${group.key}`}>
           {errorAt(group.key) ? <Message tone="error" text={errorAt(group.key) ?? ''} /> : null}
           <FieldGrid>{group.fields.map((spec) => field(spec))}</FieldGrid>
           {group.key === 'bus' && !readOnly ? (

@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, radius, space, type } from '../constants/theme';
 import { PRESET_CAUTION, REQUIREMENT_PRESETS, type RequirementPreset } from '../constants/presets';
-import { REQUIREMENT_FIELDS, type FieldSpec } from '../shared/design-fields';
+import { formLabel, REQUIREMENT_FIELDS, type FieldSpec } from '../shared/design-fields';
 import type { RequirementDraft } from '../shared/schema/discharge';
 import { formatQuantity } from '../shared/units';
 import { FieldGrid, type FieldProblem } from './design-editor';
@@ -61,7 +61,7 @@ export function RequirementEditor({ value, onChange, readOnly, testIDPrefix = 'r
     return (
       <QuantityField
         key={spec.path}
-        label={spec.label}
+        label={formLabel(spec)}
         kind={spec.kind}
         value={value[key]}
         onChange={(v) => onChange({ ...value, [key]: v })}

@@ -1,6 +1,6 @@
 import { Platform, StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, radius, space, type } from '../constants/theme';
-import { ALL_DESIGN_FIELDS, DESIGN_GROUPS, REQUIREMENT_FIELDS } from '../shared/design-fields';
+import { inputLabel } from '../shared/design-fields';
 import { completeInput, spiceNetlist } from '../shared/engine';
 import { isInformational, type BleederOption, type DesignDraft, type DischargeResult, type NetworkState, type RequirementDraft, type Suggestion } from '../shared/schema/discharge';
 import { formatQuantity } from '../shared/units';
@@ -19,25 +19,6 @@ interface Props {
   testIDPrefix?: string;
 }
 
-/** A missing input's path ("design.bleeder.tolerance") in the words of the form ("Bleeder network: Tolerance"). */
-export function inputLabel(path: string): string {
-  const [root, ...rest] = path.split('.');
-  const inner = rest.join('.');
-  if (root === 'requirement') {
-    const spec = REQUIREMENT_FIELDS.find((f) => f.path === inner);
-    if (spec) return `Requirement: ${spec.label.replace(/ \(optional\)$/, '')}`;
-    return inner ? `Requirement: ${inner}` : 'Requirement';
-  }
-  if (inner === 'active' || inner.startsWith('active.')) {
-    const spec = ALL_DESIGN_FIELDS.find((f) => f.path === inner);
-    return spec ? `Active discharge: ${spec.label}` : 'Active discharge';
-  }
-  const group = DESIGN_GROUPS.find((g) => inner === g.key || inner.startsWith(`${g.key}.`));
-  if (!group) return path;
-  if (inner === group.key) return `${group.title} (every field)`;
-  const spec = group.fields.find((f) => f.path === inner);
-  return `${group.title}: ${spec ? spec.label : inner.slice(group.key.length + 1)}`;
-}
 
 function verdictText(result: DischargeResult): { mark: string; words: string; tone: 'pass' | 'fail' | 'pending' } {
   if (result.verdict === 'incomplete') return { mark: '◷', words: 'Incomplete: no verdict yet', tone: 'pending' };

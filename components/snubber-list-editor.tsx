@@ -1,11 +1,10 @@
 import { useRef } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, radius, space, type } from '../constants/theme';
-import type { FieldKind } from '../shared/design-fields';
+import { SNUBBER_KIND_FIELDS, SNUBBER_KIND_WORDS, SNUBBER_OPERATING_FIELDS, SNUBBER_PART_FIELDS, type SnubberFieldSpec, type SnubberNumericKey } from '../shared/design-fields';
 import { snubberChecks } from '../shared/engine/snubber';
 import type { Check } from '../shared/schema/discharge';
 import { snubberSchema, type SnubberKind } from '../shared/schema/snubber';
-import type { QuantityUnit } from '../shared/units';
 import { CheckCard } from './check-card';
 import { Badge } from './ui/badge';
 import { Button } from './ui/button';
@@ -14,25 +13,7 @@ import { Message } from './ui/message';
 import { QuantityField } from './ui/quantity-field';
 import { TextField } from './ui/text-field';
 
-type NumericKey =
-  | 'resistance'
-  | 'capacitance'
-  | 'capacitanceTolerance'
-  | 'powerRating'
-  | 'derating'
-  | 'capacitorVoltageRating'
-  | 'switchingVoltage'
-  | 'overshoot'
-  | 'switchingFrequency'
-  | 'parasiticInductance'
-  | 'parasiticCapacitance'
-  | 'switchedCurrent'
-  | 'fallTime'
-  | 'minOnTime'
-  | 'leakageInductance'
-  | 'peakCurrent'
-  | 'clampVoltage'
-  | 'reflectedVoltage';
+type NumericKey = SnubberNumericKey;
 
 /**
  * A snubber as it is being typed: the kind is always set, every other field may be missing, and a
@@ -61,63 +42,26 @@ interface Props {
   serverErrors?: readonly SnubberFieldProblem[];
 }
 
-interface NumericSpec {
-  key: NumericKey;
-  label: string;
-  kind: FieldKind;
-  placeholder: string;
-}
+type NumericSpec = SnubberFieldSpec;
 
-const q = (unit: QuantityUnit): FieldKind => ({ type: 'quantity', unit });
-const percent: FieldKind = { type: 'percent' };
+const PARTS = SNUBBER_PART_FIELDS;
+const OPERATING = SNUBBER_OPERATING_FIELDS;
 
-const PARTS: NumericSpec[] = [
-  { key: 'resistance', label: 'Resistance', kind: q('Ω'), placeholder: '82 Ω' },
-  { key: 'capacitance', label: 'Capacitance', kind: q('F'), placeholder: '330 pF' },
-  { key: 'capacitanceTolerance', label: 'Capacitance tolerance', kind: percent, placeholder: '10 %' },
-  { key: 'capacitorVoltageRating', label: 'Capacitor voltage rating', kind: q('V'), placeholder: '100 V' },
-  { key: 'powerRating', label: 'Resistor power rating', kind: q('W'), placeholder: '0.5 W' },
-  { key: 'derating', label: 'Derating (share of rating allowed)', kind: percent, placeholder: '50 %' },
-];
-
-const OPERATING: NumericSpec[] = [
-  { key: 'switchingVoltage', label: 'Switching voltage (highest)', kind: q('V'), placeholder: '48 V' },
-  { key: 'overshoot', label: 'Overshoot above it', kind: percent, placeholder: '30 %' },
-  { key: 'switchingFrequency', label: 'Switching frequency (highest)', kind: q('Hz'), placeholder: '250 kHz' },
-];
-
+const EXTRA_NOTES: Record<SnubberKind, string> = {
+  rc: 'Loop parasitics for the damping check, e.g. from the snubber sizing helper; C_par may stay empty.',
+  'rcd-turnoff': 'For the capacitor size and the reset time.',
+  'rcd-clamp': 'Leakage data give the settled clamp voltage; without them, enter the clamp voltage.',
+};
 const EXTRAS: Record<SnubberKind, { note: string; fields: NumericSpec[] }> = {
-  rc: {
-    note: 'Loop parasitics for the damping check, e.g. from the snubber sizing helper; C_par may stay empty.',
-    fields: [
-      { key: 'parasiticInductance', label: 'Loop inductance L_par', kind: q('H'), placeholder: '633 nH' },
-      { key: 'parasiticCapacitance', label: 'Node capacitance C_par', kind: q('F'), placeholder: '100 pF' },
-    ],
-  },
-  'rcd-turnoff': {
-    note: 'For the capacitor size and the reset time.',
-    fields: [
-      { key: 'switchedCurrent', label: 'Switched current', kind: q('A'), placeholder: '10 A' },
-      { key: 'fallTime', label: 'Current fall time', kind: q('s'), placeholder: '50 ns' },
-      { key: 'minOnTime', label: 'Minimum on-time', kind: q('s'), placeholder: '1 µs' },
-    ],
-  },
-  'rcd-clamp': {
-    note: 'Leakage data give the settled clamp voltage; without them, enter the clamp voltage.',
-    fields: [
-      { key: 'leakageInductance', label: 'Leakage inductance', kind: q('H'), placeholder: '5 µH' },
-      { key: 'peakCurrent', label: 'Peak primary current', kind: q('A'), placeholder: '2 A' },
-      { key: 'reflectedVoltage', label: 'Reflected voltage', kind: q('V'), placeholder: '100 V' },
-      { key: 'clampVoltage', label: 'Clamp voltage', kind: q('V'), placeholder: '150 V' },
-    ],
-  },
+  rc: { note: EXTRA_NOTES.rc, fields: SNUBBER_KIND_FIELDS.rc },
+  'rcd-turnoff': { note: EXTRA_NOTES['rcd-turnoff'], fields: SNUBBER_KIND_FIELDS['rcd-turnoff'] },
+  'rcd-clamp': { note: EXTRA_NOTES['rcd-clamp'], fields: SNUBBER_KIND_FIELDS['rcd-clamp'] },
 };
 
-const KIND_OPTIONS: ReadonlyArray<{ value: SnubberKind; label: string }> = [
-  { value: 'rc', label: 'RC' },
-  { value: 'rcd-turnoff', label: 'RCD turn-off' },
-  { value: 'rcd-clamp', label: 'RCD clamp' },
-];
+const KIND_OPTIONS: ReadonlyArray<{ value: SnubberKind; label: string }> = (['rc', 'rcd-turnoff', 'rcd-clamp'] as const).map((value) => ({
+  value,
+  label: SNUBBER_KIND_WORDS[value],
+}));
 
 const YES_NO: ReadonlyArray<{ value: 'yes' | 'no'; label: string }> = [
   { value: 'no', label: 'No' },

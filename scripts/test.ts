@@ -13,8 +13,10 @@ const TOOLS: Array<[string, string]> = [
   ['/usr/bin/ngspice', 'ngspice'],
   ['/usr/bin/openssl', 'openssl'],
   ['/usr/bin/pdfimages', 'poppler-utils'],
+  // NSS's certutil builds the trust store that pdfsig validates signatures against.
+  ['/usr/bin/certutil', 'libnss3-tools'],
 ];
-const APT_LINE = 'apt-get update && apt-get install -y chromium poppler-utils qpdf ngspice openssl';
+const APT_LINE = 'apt-get update && apt-get install -y chromium poppler-utils qpdf ngspice openssl libnss3-tools';
 
 const missing = () => TOOLS.filter(([path]) => !existsSync(path)).map(([, pkg]) => pkg);
 

@@ -5,6 +5,7 @@ import helmet from 'helmet';
 import { authRoutes } from './auth/routes';
 import { originCheck, sessionMiddleware } from './auth/middleware';
 import type { AppContext } from './context';
+import type { DossierPdfService } from './dossier-pdf/domain';
 import { AppError, errorMiddleware } from './errors';
 import { requestLog } from './logging';
 import { outboxRoutes } from './outbox/routes';
@@ -12,7 +13,7 @@ import { userRoutes } from './users/routes';
 import { apiRoutes } from './routes';
 
 /** Builds the Express app: the JSON API under /api and the web export with a deep-link fallback. */
-export function createApp(ctx: AppContext): Express {
+export function createApp(ctx: AppContext, pdf: DossierPdfService): Express {
   const app = express();
   app.disable('x-powered-by');
   // Forwarded addresses and schemes are believed only from the proxies TRUST_PROXY names.
@@ -48,7 +49,7 @@ export function createApp(ctx: AppContext): Express {
   api.use('/auth', authRoutes(ctx));
   api.use('/users', userRoutes(ctx));
   if (!ctx.config.production) api.use('/outbox', outboxRoutes(ctx));
-  api.use(apiRoutes(ctx));
+  api.use(apiRoutes(ctx, pdf));
   api.use((req, _res, next) => next(new AppError(404, 'not_found', `No API route ${req.method} ${req.path}.`)));
   app.use('/api', api);
 

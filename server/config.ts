@@ -20,6 +20,8 @@ const envSchema = z.object({
   FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
   SIGNING_P12_PATH: z.string().optional(),
   SIGNING_P12_PASSWORD: z.string().optional(),
+  SIGNING_CHAIN_PATH: z.string().optional(),
+  TSA_URL: z.union([z.literal('none'), z.string().url()]).optional(),
   SIGN_IN_LIMIT_PER_15_MIN: z.coerce.number().int().positive().default(20),
   SIGN_IN_FREE_FAILURES_PER_ACCOUNT: z.coerce.number().int().positive().default(5),
   TRUST_PROXY: z.string().trim().default(''),
@@ -42,7 +44,14 @@ export interface Config {
   organisation: string;
   seedDemo: boolean;
   smtp: { url: string | null; from: string; fakePort: number };
-  signing: { p12Path: string | null; p12Password: string | null };
+  signing: {
+    p12Path: string | null;
+    p12Password: string | null;
+    /** PEM bundle of the issuing CAs and roots of the signing and time-stamping chains. */
+    chainPath: string | null;
+    /** RFC 3161 authority; 'none' signs without trusted time; null starts the local one (outside production). */
+    tsaUrl: string | 'none' | null;
+  };
   /** Failed sign-ins (or signatures) one client address may make in 15 minutes before it waits. */
   signInLimitPer15Min: number;
   /** Failures one account may have before each further attempt waits a growing delay. */
@@ -85,7 +94,12 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     organisation: e.VOLTFALL_ORGANISATION,
     seedDemo: !production && (env.VOLTFALL_SEED_DEMO === undefined ? true : e.VOLTFALL_SEED_DEMO),
     smtp: { url: e.SMTP_URL ?? null, from: e.SMTP_FROM, fakePort: e.FAKE_SMTP_PORT },
-    signing: { p12Path: e.SIGNING_P12_PATH ?? null, p12Password: e.SIGNING_P12_PASSWORD ?? null },
+    signing: {
+      p12Path: e.SIGNING_P12_PATH ?? null,
+      p12Password: e.SIGNING_P12_PASSWORD ?? null,
+      chainPath: e.SIGNING_CHAIN_PATH ?? null,
+      tsaUrl: e.TSA_URL ?? null,
+    },
     signInLimitPer15Min: e.SIGN_IN_LIMIT_PER_15_MIN,
     signInFreeFailuresPerAccount: e.SIGN_IN_FREE_FAILURES_PER_ACCOUNT,
     trustProxy: parseTrustProxy(e.TRUST_PROXY),
@@ -107,6 +121,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       !config.smtp.url && 'SMTP_URL',
       !config.signing.p12Path && 'SIGNING_P12_PATH',
       !config.signing.p12Password && 'SIGNING_P12_PASSWORD',
+      !config.signing.tsaUrl && 'TSA_URL (or TSA_URL=none to sign without trusted time)',
       !config.publicUrl && 'VOLTFALL_PUBLIC_URL',
     ].filter(Boolean);
     if (missing.length) {

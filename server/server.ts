@@ -14,6 +14,8 @@ import { seedDemo } from './db/seed';
 import { createLogger } from './logging';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { MailSender } from './mail/mailer';
+import { DossierPdfService } from './dossier-pdf/domain';
+import { startSigning } from './signing/service';
 
 export interface RunningServer {
   ctx: AppContext;
@@ -43,6 +45,8 @@ export async function startServer(config: Config, options: StartOptions = {}): P
   const smtpUrl = config.smtp.url ?? fakeSmtp!.url;
   const mail = new MailSender(db, smtpUrl, config.smtp.from, log);
   mail.start();
+  // Outside production this also starts the local time-stamping authority on loopback.
+  const signing = await startSigning(config);
 
   const ctx: AppContext = {
     config,
@@ -53,16 +57,21 @@ export async function startServer(config: Config, options: StartOptions = {}): P
     log,
     background: new Background(log),
     kickMail: () => void mail.flush(),
+    signing,
     baseUrl: config.publicUrl ?? `http://localhost:${config.port}`,
   };
   const sweep = setInterval(() => ctx.background.run('sweep expired sessions and throttles', () => sweepExpired(ctx)), config.sessions.sweepMs);
-  const app = createApp(ctx);
+  const pdf = new DossierPdfService(ctx);
+  // Tests start many servers and most never render a PDF; a production server should not make its first
+  // approval wait for the worker to load.
+  if (config.production) pdf.warm();
+  const app = createApp(ctx, pdf);
   const server = await new Promise<Server>((resolve) => {
     const s = app.listen(config.port, config.host, () => resolve(s));
   });
   const port = (server.address() as AddressInfo).port;
   if (!config.publicUrl) ctx.baseUrl = `http://localhost:${port}`;
-  log.info({ port, dataDir: config.dataDir, fakeSmtp: fakeSmtp?.url ?? null }, 'Voltfall is listening');
+  log.info({ port, dataDir: config.dataDir, fakeSmtp: fakeSmtp?.url ?? null, localTsa: signing.localTsaUrl }, 'Voltfall is listening');
   return {
     ctx,
     server,
@@ -76,6 +85,8 @@ export async function startServer(config: Config, options: StartOptions = {}): P
       await ctx.background.settled();
       await mail.stop();
       await fakeSmtp?.close();
+      await pdf.close();
+      await signing.close();
       await db.destroy();
     },
   };

@@ -43,9 +43,37 @@ const escapeXml = (text: string) =>
 
 const num = (value: number) => value.toFixed(2);
 
+/**
+ * At most the first, lowest, highest and last point of each 1-pt column, in their order: the drawn line
+ * looks the same (its extremes are kept), and the SVG renderer, which dominates the PDF's build time,
+ * draws a few hundred segments instead of thousands.
+ */
+function perColumn(points: ReadonlyArray<readonly [number, number]>): Array<readonly [number, number]> {
+  const out: Array<readonly [number, number]> = [];
+  let i = 0;
+  while (i < points.length) {
+    const column = Math.floor(points[i][0]);
+    let j = i;
+    let lo = i;
+    let hi = i;
+    while (j < points.length && Math.floor(points[j][0]) === column) {
+      if (points[j][1] < points[lo][1]) lo = j;
+      if (points[j][1] > points[hi][1]) hi = j;
+      j += 1;
+    }
+    for (const k of [...new Set([i, lo, hi, j - 1])].sort((a, b) => a - b)) out.push(points[k]);
+    i = j;
+  }
+  return out;
+}
+
 export function decayChartSvg(input: DecayChartInput): string {
   const { width, height, fontFamily } = input;
-  const margin = { left: 52, right: 12, top: 10, bottom: 40 };
+  // The legend sits below the axis title, outside the plot, so no curve or limit line can cross it.
+  const legendColumns = 2;
+  const legendRows = Math.ceil(input.series.length / legendColumns);
+  const rowH = 11;
+  const margin = { left: 52, right: 12, top: 10, bottom: 40 + legendRows * rowH + 6 };
   const plotW = width - margin.left - margin.right;
   const plotH = height - margin.top - margin.bottom;
 
@@ -109,9 +137,8 @@ export function decayChartSvg(input: DecayChartInput): string {
   }
 
   for (const s of input.series) {
-    const pts = s.points
-      .filter((p) => Number.isFinite(p.t) && Number.isFinite(p.v) && p.t >= x0 && p.t <= x1)
-      .map((p) => `${num(clampX(p.t))},${num(clampY(p.v))}`);
+    const inside = s.points.filter((p) => Number.isFinite(p.t) && Number.isFinite(p.v) && p.t >= x0 && p.t <= x1);
+    const pts = perColumn(inside.map((p) => [clampX(p.t), clampY(p.v)] as const)).map(([px, py]) => `${num(px)},${num(py)}`);
     if (pts.length < 2) continue;
     const dash = s.dash ? ` stroke-dasharray="${s.dash}"` : '';
     parts.push(
@@ -119,21 +146,16 @@ export function decayChartSvg(input: DecayChartInput): string {
     );
   }
 
-  // Legend in the top-right corner, where decaying curves leave room.
-  const rowH = 10;
-  const legendW = Math.min(plotW * 0.5, 20 + 4.3 * Math.max(...input.series.map((s) => s.label.length), 10));
-  const lx = plotW - legendW - 6;
-  const ly = 6;
-  parts.push(
-    `<rect x="${num(lx)}" y="${ly}" width="${num(legendW)}" height="${input.series.length * rowH + 6}" fill="#ffffff" fill-opacity="0.9" stroke="#bbb" stroke-width="0.5"/>`,
-  );
+  const legendTop = plotH + 36;
+  const columnW = plotW / legendColumns;
   input.series.forEach((s, i) => {
-    const cy = ly + 8 + i * rowH;
+    const lx = (i % legendColumns) * columnW;
+    const cy = legendTop + Math.floor(i / legendColumns) * rowH;
     const dash = s.dash ? ` stroke-dasharray="${s.dash}"` : '';
     parts.push(
-      `<line x1="${num(lx + 4)}" y1="${cy}" x2="${num(lx + 18)}" y2="${cy}" stroke="${s.color}" stroke-width="${Math.max(1.2, s.width)}"${dash}/>`,
+      `<line x1="${num(lx)}" y1="${cy}" x2="${num(lx + 18)}" y2="${cy}" stroke="${s.color}" stroke-width="${Math.max(1.4, s.width)}"${dash}/>`,
     );
-    parts.push(`<text x="${num(lx + 22)}" y="${cy + 2.6}" fill="#111">${escapeXml(s.label)}</text>`);
+    parts.push(`<text x="${num(lx + 23)}" y="${cy + 2.6}" fill="#111">${escapeXml(s.label)}</text>`);
   });
 
   parts.push('</g></svg>');

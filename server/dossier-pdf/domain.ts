@@ -4,74 +4,112 @@ import { readFile, rename, rm, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Knex } from 'knex';
 import type { AppContext } from '../context';
-import { buildPdfModel } from './build-model';
-import { loadOrCreateSigningIdentity, type SigningIdentity } from './certificate';
-import { renderDossierPdf } from './render';
+import { AppError, conflict } from '../errors';
+import { buildPdfModel, type PendingDecision } from './build-model';
+import type { DossierPdfModel } from './model';
+import { PdfRenderPool } from './render-pool';
+import type { SignOptions } from './sign';
+
+/** A signed dossier rendered ahead of its approval: stored with the decision, or thrown away. */
+export interface PreparedDossier {
+  sha256: string;
+  size: number;
+  /** Inside the approval's transaction: moves the file in place and records it. */
+  commit(trx: Knex.Transaction): Promise<void>;
+  /** After a lost race or any failure before the commit. */
+  discard(): Promise<void>;
+}
 
 /** Signed dossiers live beside the evidence, one file per SHA-256 under `<dataDir>/dossiers/`. */
 export class DossierPdfService {
-  private identity: Promise<SigningIdentity> | null = null;
   private readonly dir: string;
+  private readonly pool = new PdfRenderPool();
 
   constructor(private readonly ctx: AppContext) {
     this.dir = join(ctx.config.dataDir, 'dossiers');
     mkdirSync(this.dir, { recursive: true });
   }
 
-  signingIdentity(): Promise<SigningIdentity> {
-    this.identity ??= loadOrCreateSigningIdentity({
-      dataDir: this.ctx.config.dataDir,
-      p12Path: this.ctx.config.signing.p12Path,
-      p12Password: this.ctx.config.signing.p12Password,
-      production: this.ctx.config.production,
-    });
-    return this.identity;
-  }
-
   /** An unsigned PDF of a revision that is not approved, marked as such on every page. */
   async renderDraft(revisionId: number): Promise<Buffer> {
-    const model = await buildPdfModel(this.ctx, this.ctx.db, revisionId, await this.signingIdentity());
-    return renderDossierPdf(model);
+    const model = await buildPdfModel(this.ctx, this.ctx.db, revisionId, await this.ctx.signing.setup());
+    return this.pool.render(model);
   }
 
   /**
-   * signAndStore: render and sign an approved revision's dossier once, write it to a temp name and
-   * rename it to its hash, and record it; called inside the approval's transaction so an approval
-   * never exists without its signed dossier.
+   * prepareApproval: render the dossier as the pending approval will leave it and sign it in the
+   * worker thread, before the approval's transaction, so the write lock is never held while signing.
    */
-  async signAndStore(trx: Knex.Transaction, revisionId: number): Promise<{ sha256: string; size: number }> {
-    const identity = await this.signingIdentity();
-    const model = await buildPdfModel(this.ctx, trx, revisionId, identity);
-    const pdf = await renderDossierPdf(model, { sign: { identity, reason: `Approval of revision ${model.revision.number}`, location: this.ctx.config.organisation } });
-    const sha256 = createHash('sha256').update(pdf).digest('hex');
-    const tmp = join(this.dir, `${sha256}.${randomBytes(6).toString('hex')}.part`);
-    await writeFile(tmp, pdf);
-    await rename(tmp, join(this.dir, sha256));
-    try {
-      await trx('signed_dossier').insert({
-        revision_id: revisionId,
-        sha256,
-        storage_key: sha256,
-        size: pdf.length,
-        signer_subject: identity.subject,
-        signer_kind: identity.kind,
-        created_at: new Date().toISOString(),
-      });
-    } catch (err) {
-      await rm(join(this.dir, sha256), { force: true });
-      throw err;
-    }
-    return { sha256, size: pdf.length };
+  async prepareApproval(revisionId: number, pending: PendingDecision): Promise<PreparedDossier> {
+    const setup = await this.ctx.signing.setup();
+    const model = await buildPdfModel(this.ctx, this.ctx.db, revisionId, setup, pending);
+    return this.prepare(revisionId, model, setup);
   }
 
   /** The stored signed PDF of an approved revision (signed now if an older approval has none yet). */
   async signedPdf(revisionId: number): Promise<{ pdf: Buffer; sha256: string }> {
     let row = await this.ctx.db('signed_dossier').where({ revision_id: revisionId }).first();
     if (!row) {
-      await this.ctx.db.transaction((trx) => this.signAndStore(trx, revisionId));
+      const setup = await this.ctx.signing.setup();
+      const prepared = await this.prepare(revisionId, await buildPdfModel(this.ctx, this.ctx.db, revisionId, setup), setup);
+      try {
+        await this.ctx.db.transaction(async (trx) => {
+          // Two first downloads at once: the first to commit wins, the other serves its file.
+          if (await trx('signed_dossier').where({ revision_id: revisionId }).first()) throw conflict('already signed');
+          await prepared.commit(trx);
+        });
+      } catch {
+        await prepared.discard();
+      }
       row = await this.ctx.db('signed_dossier').where({ revision_id: revisionId }).first();
     }
     const pdf = await readFile(join(this.dir, row.storage_key));
     return { pdf, sha256: row.sha256 };
+  }
+
+  /** Loads the PDF worker ahead of the first render (a production server does this at start-up). */
+  warm(): void {
+    this.pool.warm();
+  }
+
+  close(): Promise<void> {
+    return this.pool.close();
+  }
+
+  private async prepare(revisionId: number, model: DossierPdfModel, setup: Awaited<ReturnType<AppContext['signing']['setup']>>): Promise<PreparedDossier> {
+    const sign: SignOptions = { setup, reason: `Approval of revision ${model.revision.number}`, location: this.ctx.config.organisation };
+    let pdf: Buffer;
+    try {
+      pdf = await this.pool.render(model, sign);
+    } catch (error) {
+      // The time-stamping authority or a CRL server may be away; nothing has been recorded yet.
+      this.ctx.log.error({ err: error, revisionId }, 'signing the dossier failed');
+      throw new AppError(503, 'signing_unavailable', `The dossier could not be signed, so nothing was recorded: ${(error as Error).message} Try again later.`);
+    }
+    const sha256 = createHash('sha256').update(pdf).digest('hex');
+    const temp = join(this.dir, `${sha256}.${randomBytes(6).toString('hex')}.part`);
+    const final = join(this.dir, sha256);
+    await writeFile(temp, pdf);
+    let placed = false;
+    return {
+      sha256,
+      size: pdf.length,
+      commit: async (trx) => {
+        await rename(temp, final);
+        placed = true;
+        await trx('signed_dossier').insert({
+          revision_id: revisionId,
+          sha256,
+          storage_key: sha256,
+          size: pdf.length,
+          signer_subject: setup.identity.subject,
+          signer_kind: setup.identity.kind,
+          created_at: new Date().toISOString(),
+        });
+      },
+      discard: async () => {
+        await rm(placed ? final : temp, { force: true });
+      },
+    };
   }
 }

@@ -46,3 +46,14 @@ export function timestamp(value: Timestamp | null | undefined): string {
   if (Number.isNaN(date.getTime())) return String(value);
   return `${date.toISOString().slice(0, 19).replace('T', ' ')} UTC`;
 }
+
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+
+/** "12 Mar 2026 14:02 UTC": the form of the audit trail and the signature page. */
+export function dateTime(value: Timestamp | null | undefined): string {
+  if (value === null || value === undefined) return '—';
+  const d = value instanceof Date ? value : new Date(value);
+  if (Number.isNaN(d.getTime())) return String(value);
+  const pad = (n: number) => String(n).padStart(2, '0');
+  return `${d.getUTCDate()} ${MONTHS[d.getUTCMonth()]} ${d.getUTCFullYear()} ${pad(d.getUTCHours())}:${pad(d.getUTCMinutes())} UTC`;
+}

@@ -44,6 +44,8 @@ export interface ChangedInput {
 export interface ChangedCheck {
   id: string;
   label: string;
+  /** The capture an evidence-derived check comes from; null or absent for calculated checks. */
+  evidence?: { name: string; sha256: string } | null;
   /** Null when the check did not exist on that side. */
   fromPass: boolean | null;
   toPass: boolean | null;
@@ -72,12 +74,32 @@ export interface ReviewEntry {
   /** The revision's content hash at the moment of the decision. */
   contentHash: string;
   at: Timestamp;
+  /** As recorded with the electronic signature; older records fall back to the reviewer's name and "reviewer". */
+  signerName?: string | null;
+  signerRole?: string | null;
+  /** E.g. "approved as reviewer"; falls back to the decision in words. */
+  meaning?: string | null;
+}
+
+export interface AuditEntry {
+  id: Id;
+  at: Timestamp;
+  /** The actor's name; null for the system. */
+  actor: string | null;
+  /** E.g. "revision.submit". */
+  action: string;
+  /** The revision the event concerns, by number, when it concerns one. */
+  revisionNumber: number | null;
+  payload: Record<string, unknown>;
+  hash: string;
 }
 
 export interface AuditSummary {
   verified: boolean;
-  /** Number of events in the chain that covers this dossier. */
-  events: number;
+  /** This dossier's events, oldest first. */
+  events: AuditEntry[];
+  /** Hash of the newest event of the whole chain when the dossier was generated. */
+  headHash: string | null;
   firstBroken?: { id: Id; at?: Timestamp; reason?: string } | null;
 }
 
@@ -85,6 +107,8 @@ export interface SignerSummary {
   kind: 'development' | 'organisation';
   subject: string;
   fingerprintSha256?: string;
+  /** Where the signature's trusted time comes from; null when it is signed without one (TSA_URL=none). */
+  timestampAuthority: string | null;
 }
 
 export interface DossierPdfModel {

@@ -4,23 +4,20 @@ import { fileURLToPath } from 'node:url';
 import type { Content, TDocumentDefinitions } from 'pdfmake/interfaces';
 import { timestamp } from './format';
 import { approvalOf, type DossierPdfModel } from './model';
-import {
-  auditSection,
-  changesSection,
-  chartSection,
-  checksSection,
-  CONTENT_WIDTH,
-  cover,
-  evidenceSection,
-  FONT,
-  inputsSection,
-  MONO,
-  reviewsSection,
-  signatureSection,
-  worstCaseSection,
-} from './sections';
+import { CONTENT_WIDTH, FONT, MONO } from './layout';
+import { auditSection } from './sections/audit';
+import { changesSection } from './sections/changes';
+import { chartSection } from './sections/chart';
+import { checksSection } from './sections/checks';
+import { contents } from './sections/contents';
+import { cover } from './sections/cover';
+import { evidenceSection } from './sections/evidence';
+import { inputsSection } from './sections/inputs';
+import { reviewsSection } from './sections/review';
+import { signatureSection } from './sections/signature';
+import { worstCaseSection } from './sections/worst-case';
 import { addSignaturePlaceholder, signPdf, type SignOptions } from './sign';
-import { NOT_APPROVED_MARK, STATUS_SHORT } from './wording';
+import { CAUTION_LINE, NOT_APPROVED_MARK, STATUS_SHORT } from './wording';
 
 export type { SignOptions } from './sign';
 
@@ -48,8 +45,8 @@ function configurePdfmake(): void {
     [FONT]: {
       normal: fontFile('DejaVuSans.ttf'),
       bold: fontFile('DejaVuSans-Bold.ttf'),
-      italics: fontFile('DejaVuSans.ttf'),
-      bolditalics: fontFile('DejaVuSans-Bold.ttf'),
+      italics: fontFile('DejaVuSans-Oblique.ttf'),
+      bolditalics: fontFile('DejaVuSans-BoldOblique.ttf'),
     },
     [MONO]: {
       normal: fontFile('DejaVuSansMono.ttf'),
@@ -65,8 +62,8 @@ function configurePdfmake(): void {
 
 /**
  * Renders the dossier of one revision. An approved revision must be given `sign` and comes back signed
- * (CMS detached, SHA-256) with a signature page; any other status comes back unsigned and marked
- * "NOT APPROVED — not for certification" on every page.
+ * (PAdES baseline B-LT: CAdES detached, SHA-256, timestamp, security store) with a signature page; any
+ * other status comes back unsigned and marked "NOT APPROVED — not for certification" on every page.
  */
 export async function renderDossierPdf(model: DossierPdfModel, options: RenderOptions = {}): Promise<Buffer> {
   const approved = model.revision.status === 'approved';
@@ -80,7 +77,7 @@ export async function renderDossierPdf(model: DossierPdfModel, options: RenderOp
   const kit = await pdfmake.createPdf(definition).getStream();
   if (!options.sign) return collect(kit);
   addSignaturePlaceholder(kit, options.sign, signingTime);
-  return signPdf(await collect(kit), options.sign, signingTime);
+  return (await signPdf(await collect(kit), options.sign, signingTime)).pdf;
 }
 
 function assertSignable(model: DossierPdfModel, sign: SignOptions | undefined): asserts sign is SignOptions {
@@ -92,8 +89,8 @@ function assertSignable(model: DossierPdfModel, sign: SignOptions | undefined): 
       `The approval covers content hash ${approval.contentHash}, but the revision hashes to ${model.revision.contentHash}; refusing to sign.`,
     );
   }
-  if (sign.identity.kind !== model.signer.kind) {
-    throw new Error(`The model names a ${model.signer.kind} signer but the identity is a ${sign.identity.kind} certificate.`);
+  if (sign.setup.identity.kind !== model.signer.kind) {
+    throw new Error(`The model names a ${model.signer.kind} signer but the identity is a ${sign.setup.identity.kind} certificate.`);
   }
 }
 
@@ -112,6 +109,7 @@ function documentDefinition(model: DossierPdfModel, signingTime: Date): TDocumen
   const { product, dossier, revision } = model;
   const content: Content[] = [
     ...cover(model),
+    ...contents(),
     ...inputsSection(model),
     ...checksSection(model),
     ...worstCaseSection(model),
@@ -123,10 +121,10 @@ function documentDefinition(model: DossierPdfModel, signingTime: Date): TDocumen
     // Last, so the signature widget lands on the page that explains it.
     ...(approved ? signatureSection(model, signingTime) : []),
   ];
-  const running = `${model.organisation} · ${product.name} (${product.modelNumber}) · ${dossier.title} · Revision ${revision.number}`;
+  const running = `${product.name} (${product.modelNumber}) · ${dossier.title} · Revision ${revision.number}`;
   return {
     pageSize: 'A4',
-    pageMargins: [40, approved ? 52 : 62, 40, 44],
+    pageMargins: [40, approved ? 52 : 62, 40, 56],
     info: {
       title: `${dossier.title} — revision ${revision.number}`,
       author: model.organisation,
@@ -146,7 +144,7 @@ function documentDefinition(model: DossierPdfModel, signingTime: Date): TDocumen
         {
           columns: [
             { text: running, fontSize: 7, color: '#5f6368', width: '*' },
-            { text: STATUS_SHORT[revision.status], fontSize: 7, bold: true, alignment: 'right', width: 'auto' },
+            { text: `Status: ${STATUS_SHORT[revision.status]}`, fontSize: 7, bold: true, alignment: 'right', width: 'auto' },
           ],
         },
         ...(approved
@@ -156,10 +154,16 @@ function documentDefinition(model: DossierPdfModel, signingTime: Date): TDocumen
       ],
     }),
     footer: (currentPage: number, pageCount: number) => ({
-      margin: [40, 14, 40, 0],
-      columns: [
-        { text: `Generated ${timestamp(model.generatedAt)} · content hash ${revision.contentHash.slice(0, 16)}…`, fontSize: 7, color: '#5f6368' },
-        { text: `Page ${currentPage} of ${pageCount}`, fontSize: 7.5, alignment: 'right', width: 'auto' },
+      margin: [40, 12, 40, 0],
+      stack: [
+        // Every page that shows a result carries the caution line; the cover has the cautions in full.
+        ...(currentPage === 1 ? [] : [{ text: CAUTION_LINE, fontSize: 6.5, color: '#b71c1c', margin: [0, 0, 0, 3] } as Content]),
+        {
+          columns: [
+            { text: `${model.organisation} · generated ${timestamp(model.generatedAt)} · content hash ${revision.contentHash.slice(0, 16)}…`, fontSize: 7, color: '#5f6368' },
+            { text: `Page ${currentPage} of ${pageCount}`, fontSize: 7.5, alignment: 'right', width: 'auto' },
+          ],
+        },
       ],
     }),
     ...(approved

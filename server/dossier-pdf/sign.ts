@@ -1,16 +1,21 @@
+// Placement of the signature in the PDF: @signpdf writes the signature dictionary and its byte
+// ranges (placeholder-pdfkit, since pdfmake builds on pdfkit), our CAdES signer fills /Contents,
+// and the document security store follows as an incremental update (PAdES baseline B-LT).
 import { pdfkitAddPlaceholder } from '@signpdf/placeholder-pdfkit';
-import { P12Signer } from '@signpdf/signer-p12';
 import { SignPdf } from '@signpdf/signpdf';
-import { SUBFILTER_ADOBE_PKCS7_DETACHED } from '@signpdf/utils';
-import type { SigningIdentity } from './certificate';
+import { Signer, SUBFILTER_ETSI_CADES_DETACHED } from '@signpdf/utils';
+import { cadesDetachedSignature, type CadesSignature } from '../signing/cades';
+import { appendDss } from '../signing/dss';
+import type { SigningSetup } from '../signing/identity';
+import { validationData } from '../signing/revocation';
 
 export interface SignOptions {
-  identity: SigningIdentity;
+  setup: SigningSetup;
   /** Shown by PDF readers in the signature panel. */
   reason?: string;
   location?: string;
   contactInfo?: string;
-  /** Defaults to now; the same instant goes into the PDF signature dictionary and the CMS attribute. */
+  /** The claimed signing time (/M); the trusted time comes from the timestamp. Defaults to now. */
   signingTime?: Date;
 }
 
@@ -20,8 +25,8 @@ export interface PdfKitDocumentLike {
 }
 
 /**
- * Adds the signature dictionary, its empty /Contents and an invisible widget on the current (last)
- * page, before the document is ended. CMS detached with SHA-256 (adbe.pkcs7.detached sub-filter).
+ * Adds the signature dictionary (SubFilter ETSI.CAdES.detached), its empty /Contents and an invisible
+ * widget on the current (last) page, before the document is ended.
  */
 export function addSignaturePlaceholder(pdf: PdfKitDocumentLike, options: SignOptions, signingTime: Date): void {
   // The refs returned here are already ended by the library; ending them again makes the PDF hang.
@@ -31,23 +36,45 @@ export function addSignaturePlaceholder(pdf: PdfKitDocumentLike, options: SignOp
     pdfBuffer: Buffer.alloc(0),
     reason: options.reason ?? 'Approval of the revision',
     contactInfo: options.contactInfo ?? '',
-    name: options.identity.subject,
+    name: options.setup.identity.commonName,
     location: options.location ?? '',
     signingTime,
-    signatureLength: signatureLength(options.identity),
-    subFilter: SUBFILTER_ADOBE_PKCS7_DETACHED,
+    signatureLength: signatureLength(options.setup),
+    subFilter: SUBFILTER_ETSI_CADES_DETACHED,
     appName: 'Voltfall',
   });
 }
 
-/** Fills the placeholder with a detached CMS signature over the byte ranges around it. */
-export async function signPdf(pdfWithPlaceholder: Buffer, options: SignOptions, signingTime: Date): Promise<Buffer> {
-  const signer = new P12Signer(options.identity.p12, { passphrase: options.identity.password });
-  // Under ESM the default export's bound `sign` is not reliable; an instance is.
-  return new SignPdf().sign(pdfWithPlaceholder, signer, signingTime);
+class CadesSigner extends Signer {
+  result: CadesSignature | null = null;
+
+  constructor(private readonly setup: SigningSetup) {
+    super();
+  }
+
+  async sign(signedBytes: Buffer): Promise<Buffer> {
+    this.result = await cadesDetachedSignature(new Uint8Array(signedBytes), this.setup);
+    return Buffer.from(this.result.cms);
+  }
 }
 
-/** Room for the CMS: every certificate in the PKCS#12 travels in it, plus the signature and attributes. */
-function signatureLength(identity: SigningIdentity): number {
-  return Math.max(8192, identity.p12.length + 4096);
+export interface SignedPdf {
+  pdf: Buffer;
+  /** The trusted time of the signature timestamp; null when signed without one. */
+  timestampedAt: Date | null;
+}
+
+/** Fills the placeholder with the CAdES signature over the byte ranges around it, then appends the DSS. */
+export async function signPdf(pdfWithPlaceholder: Buffer, options: SignOptions, signingTime: Date): Promise<SignedPdf> {
+  const signer = new CadesSigner(options.setup);
+  // Under ESM the default export's bound `sign` is not reliable; an instance is.
+  const signed = await new SignPdf().sign(pdfWithPlaceholder, signer, signingTime);
+  const timestamp = signer.result?.timestamp ?? null;
+  return { pdf: appendDss(signed, await validationData(options.setup, timestamp)), timestampedAt: timestamp?.genTime ?? null };
+}
+
+/** Room for the CMS: the signer's chain, the signature and attributes, and the timestamp token with its chain. */
+function signatureLength(setup: SigningSetup): number {
+  const chain = [setup.identity.certificate, ...setup.identity.chain].reduce((sum, c) => sum + c.length, 0);
+  return 12_288 + chain;
 }

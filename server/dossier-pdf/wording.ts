@@ -10,6 +10,9 @@ export const CAUTIONS = [
   'Limits shown are the values the user entered; check them against the current edition of the applicable standard and local regulations, and defer to the certification body or licensed assessor.',
 ] as const;
 
+/** The short form for the foot of every page after the cover. */
+export const CAUTION_LINE = `${CAUTIONS[0]} Calculations support, never replace, measurement and a qualified person’s judgement; limits are the user’s entries — see the cautions on the cover.`;
+
 export const NOT_APPROVED_MARK = 'NOT APPROVED — not for certification';
 export const DEVELOPMENT_MARK = 'Development certificate — not for certification';
 
@@ -34,13 +37,53 @@ export const VERDICT_WORDS: Record<DischargeResult['verdict'], string> = {
   incomplete: 'Incomplete: inputs are missing, so no verdict is possible',
 };
 
+export type CheckWord = 'PASS' | 'FAIL' | 'NOT MET' | 'FOR INFORMATION';
+
 /**
- * The word printed beside a check. An alternative criterion (energy, charge) that is not met does not
- * fail the dossier, because the time check already takes the earliest criterion reached.
+ * The word printed beside a check. A check without a limit (stored energy when no energy limit is
+ * set) decides nothing and is "for information", never PASS. An alternative criterion (energy,
+ * charge) that is not met does not fail the dossier, because the time check already takes the
+ * earliest criterion reached.
  */
-export function checkVerdictWord(check: Pick<Check, 'pass' | 'alternative'>): 'PASS' | 'FAIL' | 'NOT MET' {
+export function checkVerdictWord(check: Pick<Check, 'pass' | 'alternative' | 'limit'>): CheckWord {
+  if (check.limit === null) return 'FOR INFORMATION';
   if (check.pass) return 'PASS';
   return check.alternative ? 'NOT MET' : 'FAIL';
 }
 
 export const DECISION_WORDS = { approve: 'APPROVED', return: 'RETURNED' } as const;
+
+/** The meaning of a decision as signed; records made before it was stored fall back to these. */
+export const DECISION_MEANINGS = { approve: 'approved as reviewer', return: 'returned' } as const;
+
+export const TRUSTED_TIME_WORDS = {
+  with: 'The signature carries an RFC 3161 timestamp: the signing time is attested by the time-stamping authority, not by this server’s clock.',
+  without: 'The signature carries no trusted timestamp (TSA_URL=none): its time is this server’s own claim.',
+};
+
+const ACTIONS: Record<string, string> = {
+  'dossier.create': 'opened the dossier',
+  'revision.create': 'started revision {n}',
+  'revision.update': 'edited revision {n}',
+  'revision.submit': 'submitted revision {n} for review',
+  'revision.approved': 'approved revision {n}',
+  'revision.returned': 'returned revision {n}',
+  'revision.comment': 'commented on revision {n}',
+  'evidence.add': 'attached {name} to revision {n}',
+  'evidence.remove': 'removed {name} from revision {n}',
+};
+
+/** One audit event as a sentence: "Ilse Marchetti approved revision 2". */
+export function auditSentence(event: { actor: string | null; action: string; revisionNumber: number | null; payload: Record<string, unknown> }): string {
+  const who = event.actor ?? 'The system';
+  const template = ACTIONS[event.action];
+  if (!template) return `${who}: ${event.action}`;
+  const name = typeof event.payload.name === 'string' ? `“${event.payload.name}”` : 'a file';
+  let sentence = template.replace('{n}', event.revisionNumber === null ? '?' : String(event.revisionNumber)).replace('{name}', name);
+  if (event.action === 'revision.create' && typeof event.payload.createdFrom === 'number') sentence += ' from an earlier revision';
+  if (event.action === 'revision.update' && Array.isArray(event.payload.fields)) sentence += ` (${event.payload.fields.join(', ')})`;
+  if (event.action === 'revision.approved' && typeof event.payload.signedDossierSha256 === 'string') {
+    sentence += `; signed dossier ${event.payload.signedDossierSha256.slice(0, 16)}…`;
+  }
+  return `${who} ${sentence}`;
+}

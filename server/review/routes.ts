@@ -1,5 +1,4 @@
 import { Router } from 'express';
-import type { Knex } from 'knex';
 import { decisionSchema, reviewCommentSchema } from '../../shared/schema/workflow';
 import { confirmSignature } from '../auth/domain';
 import { allow, currentUser } from '../auth/middleware';
@@ -7,10 +6,9 @@ import { clientAddress } from '../auth/throttle';
 import type { AppContext } from '../context';
 import { validationError } from '../errors';
 import { parseId } from '../params';
-import type { Revision } from '../revisions/store';
-import { addReviewComment, decideRevision } from './domain';
+import { addReviewComment, decideRevision, type ApprovalSigner } from './domain';
 
-export function reviewRoutes(ctx: AppContext, afterApprove?: (trx: Knex.Transaction, rev: Revision) => Promise<void>): Router {
+export function reviewRoutes(ctx: AppContext, signer?: ApprovalSigner): Router {
   const router = Router();
 
   router.post('/revisions/:id/decision', allow('reviewer'), async (req, res) => {
@@ -19,7 +17,7 @@ export function reviewRoutes(ctx: AppContext, afterApprove?: (trx: Knex.Transact
     const { password, ...decision } = parsed.data;
     const user = currentUser(req);
     if (decision.decision === 'approve') await confirmSignature(ctx, user, password, clientAddress(req));
-    res.json(await decideRevision(ctx, user, parseId(req.params.id), decision, afterApprove));
+    res.json(await decideRevision(ctx, user, parseId(req.params.id), decision, signer));
   });
 
   router.post('/revisions/:id/comments', allow('reviewer', 'engineer', 'admin'), async (req, res) => {

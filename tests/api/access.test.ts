@@ -79,6 +79,7 @@ const TABLE: Row[] = [
   { method: 'get', path: (i) => `/api/revisions/${i.inReviewId}/dossier.pdf`, expect: { anonymous: 401, viewer: 404, signedIn: 200 } },
   { method: 'get', path: (i) => `/api/revisions/${i.approvedId}/dossier.pdf`, expect: { anonymous: 401, signedIn: 200 } },
   { method: 'delete', path: () => '/api/evidence/999999', expect: { anonymous: 401, admin: 404, engineer: 404, signedIn: 403 } },
+  { method: 'get', path: () => '/api/signing/trust', expect: { anonymous: 401, signedIn: 200 } },
   { method: 'get', path: () => '/api/no-such-route', expect: { anonymous: 404, signedIn: 404 } },
 ];
 

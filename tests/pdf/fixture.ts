@@ -5,7 +5,8 @@ import { createHash } from 'node:crypto';
 import type { DesignDraft, DischargeResult, Requirement } from '../../shared/schema/discharge';
 import type { WaveformAnalysis } from '../../shared/schema/waveform';
 import { computeDischarge } from '../../shared/engine/index';
-import type { ChangedCheck, DossierPdfModel, EvidenceEntry, Person, RevisionStatus } from '../../server/dossier-pdf/model';
+import { computeRevisionResults } from '../../shared/engine/revision-results';
+import type { AuditEntry, ChangedCheck, DossierPdfModel, EvidenceEntry, Person, RevisionStatus } from '../../server/dossier-pdf/model';
 
 export const AUTHOR: Person = { name: 'Tomas Berglund', email: 'engineer@fennel.test' };
 export const REVIEWER: Person = { name: 'Ilse Marchetti', email: 'reviewer@fennel.test' };
@@ -151,24 +152,30 @@ function checkChanges(before: DischargeResult, after: DischargeResult): ChangedC
 }
 
 const NOTES_R2 = [
-  'Bleeder: 3 strings of 3 × 7.5 kΩ, 10 W wirewound (the suggestion of the engine).',
-  'Balancing: the bleeder string doubles as the balancing network.',
-  'Captures: three units from the pilot lot, disconnected at the mains peak with the relay marker on CH2.',
+  '## Design',
+  '- **Bleeder:** 3 strings of 3 × 7.5 kΩ, 10 W wirewound (the suggestion of the engine).',
+  '- **Balancing:** the bleeder string doubles as the balancing network.',
+  '',
+  'Captures: three units from the pilot lot, disconnected at the mains peak with the relay marker on `CH2`.',
 ].join('\n');
 const NOTES_DIFF = [
   '--- revision 1',
   '+++ revision 2',
   '@@ -1,2 +1,3 @@',
-  '-Bleeder: 2 strings of 4 × 4.7 kΩ, 10 W wirewound.',
-  '+Bleeder: 3 strings of 3 × 7.5 kΩ, 10 W wirewound (the suggestion of the engine).',
-  ' Balancing: the bleeder string doubles as the balancing network.',
-  '+Captures: three units from the pilot lot, disconnected at the mains peak with the relay marker on CH2.',
+  ' ## Design',
+  '-- **Bleeder:** 2 strings of 4 × 4.7 kΩ, 10 W wirewound.',
+  '+- **Bleeder:** 3 strings of 3 × 7.5 kΩ, 10 W wirewound (the suggestion of the engine).',
+  ' - **Balancing:** the bleeder string doubles as the balancing network.',
+  '+',
+  '+Captures: three units from the pilot lot, disconnected at the mains peak with the relay marker on `CH2`.',
 ].join('\n');
 
 export interface FixtureOptions {
   status: RevisionStatus;
   signerKind?: 'development' | 'organisation';
   signerSubject?: string;
+  /** The signer's time-stamping authority; null signs without trusted time. */
+  timestampAuthority?: string | null;
   /** Points per waveform trace (the analysis keeps at most 2 000). */
   tracePoints?: number;
   /**
@@ -186,13 +193,14 @@ const SNUBBERS: NonNullable<DesignDraft['snubbers']> = [
     resistance: 22,
     capacitance: 2.2e-9,
     capacitanceTolerance: 0.1,
-    powerRating: 2,
+    powerRating: 15,
     derating: 0.6,
     capacitorVoltageRating: 1000,
     switchingVoltage: 622,
     overshoot: 0.25,
     switchingFrequency: 8e3,
     accessible: false,
+    parasiticInductance: 0.5e-6,
   },
   {
     name: 'Auxiliary flyback clamp',
@@ -216,12 +224,13 @@ const SNUBBERS: NonNullable<DesignDraft['snubbers']> = [
 ];
 
 const PROCEDURE = [
-  'Test procedure (pilot lot, three units):',
+  '### Test procedure (pilot lot, three units)',
   '1. Supply at 440 V three-phase (rated +10 %) through the disconnect relay K1; the drive enabled and idle.',
   '2. Differential probe 100:1 across the DC link (X3:+DC to X3:−DC), DC coupling, 20 MHz bandwidth limit.',
   '3. CH2 on the auxiliary contact of K1 marks the disconnection; trigger on its falling edge, 5 % pre-trigger.',
   '4. Open K1 at the mains peak (peak-switching controller), record 10 s at 200 samples per second.',
   '5. Repeat with the brake chopper disabled, and with one bleeder string removed (single fault) — see the report.',
+  '',
   'Instruments: recorder DR-4 (calibrated 2024-11-02), probe DP-100 (calibrated 2024-10-18).',
   'Ambient 23 °C ± 2 °C. Capacitor bank from lot C-2409, measured 221 µF per unit at 100 Hz.',
 ].join('\n');
@@ -232,7 +241,6 @@ export function servoDriveDossier(options: FixtureOptions): Fixture {
   const r1 = computeDischarge({ requirement: REQUIREMENT, design: DESIGN_R1 });
   const design = options.full ? { ...DESIGN_R2, snubbers: SNUBBERS } : DESIGN_R2;
   const notes = options.full ? `${NOTES_R2}\n\n${PROCEDURE}` : NOTES_R2;
-  const r2 = computeDischarge({ requirement: REQUIREMENT, design });
   const files: FixtureFile[] = [
     capture({ name: 'pilot-unit-01-discharge.csv', v0: 619.4, tau: 1.712, seed: 11, t0Source: 'marker' }, points, '2025-03-11T09:14:05Z', 31),
     capture({ name: 'pilot-unit-02-discharge.csv', v0: 612.8, tau: 1.684, seed: 22, t0Source: 'marker' }, points, '2025-03-11T09:41:37Z', 32),
@@ -273,6 +281,11 @@ export function servoDriveDossier(options: FixtureOptions): Fixture {
       files.push(document(name, kind, mediaType, `demo content of ${name}\n`.repeat(40 + i * 17), `2025-03-1${i % 2}T1${i % 10}:0${i % 6}:00Z`, 40 + i));
     });
   }
+  const r2 = computeRevisionResults(
+    REQUIREMENT,
+    design,
+    files.filter((f) => f.entry.analysis).map((f) => ({ evidenceId: Number(f.entry.id), sha256: f.entry.sha256, name: f.entry.originalName, analysis: f.entry.analysis! })),
+  );
   const contentHash = createHash('sha256').update(JSON.stringify({ design, notes, evidence: files.map((f) => f.entry.sha256) })).digest('hex');
   const submitted = options.status !== 'draft';
   const decided = options.status === 'approved' || options.status === 'returned';
@@ -332,12 +345,33 @@ export function servoDriveDossier(options: FixtureOptions): Fixture {
       evidenceRemoved: [],
     },
     reviews: [returnedR1, ...reviews],
-    audit: { verified: true, events: 23, firstBroken: null },
+    audit: { verified: true, events: auditTrail(options.status, files), headHash: createHash('sha256').update('head').digest('hex'), firstBroken: null },
     signer: {
       kind: options.signerKind ?? 'development',
       subject: options.signerSubject ?? 'CN=Voltfall development signing (not for certification), O=Voltfall development',
+      timestampAuthority: options.timestampAuthority === undefined ? 'http://127.0.0.1/ (local development authority)' : options.timestampAuthority,
     },
     generatedAt: '2025-03-12T11:30:05Z',
   };
   return { model, files };
+}
+
+/** The dossier's story as its audit chain tells it: two revisions, uploads, submissions, decisions. */
+function auditTrail(status: RevisionStatus, files: readonly FixtureFile[]): AuditEntry[] {
+  const events: Array<Omit<AuditEntry, 'id' | 'hash'>> = [
+    { at: '2025-03-03T09:12:00Z', actor: AUTHOR.name, action: 'dossier.create', revisionNumber: null, payload: {} },
+    { at: '2025-03-03T09:12:00Z', actor: AUTHOR.name, action: 'revision.create', revisionNumber: 1, payload: { number: 1 } },
+    { at: '2025-03-05T14:40:00Z', actor: AUTHOR.name, action: 'revision.update', revisionNumber: 1, payload: { fields: ['design', 'notes'] } },
+    { at: '2025-03-06T10:05:00Z', actor: AUTHOR.name, action: 'revision.submit', revisionNumber: 1, payload: {} },
+    { at: '2025-03-07T16:02:00Z', actor: REVIEWER.name, action: 'revision.returned', revisionNumber: 1, payload: {} },
+    { at: '2025-03-10T08:00:00Z', actor: AUTHOR.name, action: 'revision.create', revisionNumber: 2, payload: { number: 2, createdFrom: 17 } },
+    { at: '2025-03-10T08:20:00Z', actor: AUTHOR.name, action: 'revision.update', revisionNumber: 2, payload: { fields: ['design'] } },
+    ...files.map((f) => ({ at: String(f.entry.uploadedAt), actor: AUTHOR.name, action: 'evidence.add', revisionNumber: 2, payload: { name: f.entry.originalName } })),
+    { at: '2025-03-11T11:50:00Z', actor: AUTHOR.name, action: 'revision.update', revisionNumber: 2, payload: { fields: ['notes'] } },
+  ];
+  if (status !== 'draft') events.push({ at: '2025-03-11T12:00:00Z', actor: AUTHOR.name, action: 'revision.submit', revisionNumber: 2, payload: {} });
+  if (status === 'returned') events.push({ at: '2025-03-12T11:30:00Z', actor: REVIEWER.name, action: 'revision.returned', revisionNumber: 2, payload: {} });
+  return events
+    .sort((a, b) => String(a.at).localeCompare(String(b.at)))
+    .map((e, i) => ({ ...e, id: i + 1, hash: createHash('sha256').update(`event ${i}`).digest('hex') }));
 }

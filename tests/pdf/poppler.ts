@@ -11,7 +11,7 @@ export interface ToolOutput {
   stderr: string;
 }
 
-async function tool(command: string, args: string[]): Promise<ToolOutput> {
+export async function tool(command: string, args: string[]): Promise<ToolOutput> {
   try {
     const { stdout, stderr } = await run(command, args, { maxBuffer: 64 * 1024 * 1024 });
     return { code: 0, stdout, stderr };
@@ -22,7 +22,8 @@ async function tool(command: string, args: string[]): Promise<ToolOutput> {
   }
 }
 
-export const pdfsig = (file: string) => tool('pdfsig', [file]);
+/** With `nssdir`, pdfsig validates certificates against the roots imported into that NSS database. */
+export const pdfsig = (file: string, nssdir?: string) => tool('pdfsig', [...(nssdir ? ['-nssdir', `sql:${nssdir}`] : []), file]);
 export const qpdfCheck = (file: string) => tool('qpdf', ['--check', file]);
 export const pdfinfo = (file: string) => tool('pdfinfo', [file]);
 
