@@ -6,7 +6,9 @@ import { pinoHttp } from 'pino-http';
 import { authRoutes } from './auth/routes';
 import { originCheck, sessionMiddleware } from './auth/middleware';
 import type { AppContext } from './context';
+import { writeGuard } from './data-folder';
 import { AppError, errorMiddleware } from './errors';
+import { rejectDeepJson } from './json-depth';
 import { outboxRoutes } from './outbox/routes';
 import { userRoutes } from './users/routes';
 import { apiRoutes } from './routes';
@@ -38,7 +40,13 @@ export function createApp(ctx: AppContext): Express {
   app.use(pinoHttp({ logger: ctx.log, autoLogging: { ignore: (req) => !req.url?.startsWith('/api') } }));
 
   const api = express.Router();
-  api.use(express.json({ limit: '2mb' }));
+  // Answers carry drafts, names and audit trails: never kept by a browser or a proxy.
+  api.use((_req, res, next) => {
+    res.setHeader('Cache-Control', 'no-store');
+    next();
+  });
+  api.use(express.json({ limit: '2mb', verify: rejectDeepJson() }));
+  api.use(writeGuard(ctx.config.dataDir));
   api.use(originCheck);
   api.use(sessionMiddleware(ctx.lucia));
   api.get('/health', (_req, res) => {

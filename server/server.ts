@@ -1,4 +1,3 @@
-import { mkdirSync } from 'node:fs';
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
 import { pino } from 'pino';
@@ -6,8 +5,10 @@ import { createApp } from './app';
 import { createLucia } from './auth/lucia';
 import type { Config } from './config';
 import type { AppContext } from './context';
+import { assertDataFolderUsable } from './data-folder';
 import { openDatabase } from './db/knex';
 import { seedDemo } from './db/seed';
+import { Housekeeping } from './housekeeping/sweep';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { MailSender } from './mail/mailer';
 
@@ -17,15 +18,21 @@ export interface RunningServer {
   url: string;
   fakeSmtp: FakeSmtp | null;
   mail: MailSender;
+  housekeeping: Housekeeping;
   close(): Promise<void>;
 }
 
-/** Opens the data folder, migrates, seeds the demo outside production, starts mail and listens. */
+/**
+ * Checks the data folder, migrates, seeds the demo outside production, clears what interrupted uploads
+ * and approvals left behind, starts mail and the periodic sweep, and listens.
+ */
 export async function startServer(config: Config): Promise<RunningServer> {
   const log = pino({ level: config.logLevel });
-  mkdirSync(config.dataDir, { recursive: true });
-  const db = await openDatabase(config.dataDir);
+  assertDataFolderUsable(config.dataDir, config.createDataDir);
+  const db = await openDatabase(config.dataDir, config.busyTimeoutMs);
   if (config.seedDemo) await seedDemo(db, log);
+  const housekeeping = new Housekeeping(db, config.dataDir, config.orphanGraceMs, log);
+  await housekeeping.startUp();
 
   const fakeSmtp = config.production ? null : await startFakeSmtp(db, config.smtp.fakePort);
   const smtpUrl = config.smtp.url ?? fakeSmtp!.url;
@@ -53,9 +60,13 @@ export async function startServer(config: Config): Promise<RunningServer> {
     url: `http://127.0.0.1:${port}`,
     fakeSmtp,
     mail,
+    housekeeping,
     async close() {
-      await new Promise<void>((resolve) => server.close(() => resolve()));
+      // Open connections (an upload in progress) are cut, which removes their temporary files.
+      const closed = new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeAllConnections();
+      await closed;
+      await housekeeping.stop();
       await mail.stop();
       await fakeSmtp?.close();
       await db.destroy();

@@ -1,20 +1,23 @@
-import { createHash, randomBytes } from 'node:crypto';
+import { createHash } from 'node:crypto';
 import { mkdirSync } from 'node:fs';
 import { readFile, rename, rm, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Knex } from 'knex';
 import type { AppContext } from '../context';
+import { tempFileName } from '../housekeeping/temp-files';
 import { buildPdfModel } from './build-model';
 import { loadOrCreateSigningIdentity, type SigningIdentity } from './certificate';
 import { renderDossierPdf } from './render';
 
 /** Signed dossiers live beside the evidence, one file per SHA-256 under `<dataDir>/dossiers/`. */
+export const signedDossierDir = (dataDir: string) => join(dataDir, 'dossiers');
+
 export class DossierPdfService {
   private identity: Promise<SigningIdentity> | null = null;
   private readonly dir: string;
 
   constructor(private readonly ctx: AppContext) {
-    this.dir = join(ctx.config.dataDir, 'dossiers');
+    this.dir = signedDossierDir(ctx.config.dataDir);
     mkdirSync(this.dir, { recursive: true });
   }
 
@@ -44,10 +47,10 @@ export class DossierPdfService {
     const model = await buildPdfModel(this.ctx, trx, revisionId, identity);
     const pdf = await renderDossierPdf(model, { sign: { identity, reason: `Approval of revision ${model.revision.number}`, location: this.ctx.config.organisation } });
     const sha256 = createHash('sha256').update(pdf).digest('hex');
-    const tmp = join(this.dir, `${sha256}.${randomBytes(6).toString('hex')}.part`);
+    const tmp = join(this.dir, tempFileName());
     await writeFile(tmp, pdf);
-    await rename(tmp, join(this.dir, sha256));
     try {
+      // The row first: it takes the write lock, so the data-folder sweep never sees the file without it.
       await trx('signed_dossier').insert({
         revision_id: revisionId,
         sha256,
@@ -57,9 +60,9 @@ export class DossierPdfService {
         signer_kind: identity.kind,
         created_at: new Date().toISOString(),
       });
-    } catch (err) {
-      await rm(join(this.dir, sha256), { force: true });
-      throw err;
+      await rename(tmp, join(this.dir, sha256));
+    } finally {
+      await rm(tmp, { force: true });
     }
     return { sha256, size: pdf.length };
   }

@@ -63,3 +63,13 @@ export async function startTestServer(overrides: Partial<Config> = {}, env: Reco
 }
 
 export { DEMO_PASSWORD, DEMO_USERS };
+
+/**
+ * Saves a draft the way the app does: with the version it last read (for tests that are not about
+ * concurrency; those send versions themselves).
+ */
+export async function saveDraft(agent: supertest.Agent, revisionId: number, body: Record<string, unknown>): Promise<supertest.Response> {
+  const current = await agent.get(`/api/revisions/${revisionId}`);
+  if (current.status !== 200) throw new Error(`reading revision ${revisionId} failed: ${current.status}`);
+  return agent.patch(`/api/revisions/${revisionId}`).send({ ...body, version: current.body.version });
+}
