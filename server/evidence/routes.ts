@@ -23,7 +23,7 @@ function uploadFault(err: unknown): unknown {
 }
 
 /** An ASCII stand-in for old clients: accents dropped, anything else outside printable ASCII as "_". */
-const asciiFallback = (name: string) => name.normalize('NFKD').replace(/[\u0300-\u036f]/g, '').replace(/[^\x20-\x7e]/g, '_');
+const asciiFallback = (name: string) => name.normalize('NFKD').replace(/[\u0300-\u036f]/g, '').replace(/[^\x20-\x7e]/gu, '_');
 
 export function evidenceRoutes(ctx: AppContext): Router {
   const router = Router();

@@ -7,6 +7,7 @@ import supertest from 'supertest';
 import { loadConfig, type Config } from '../../server/config';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../server/db/seed';
 import { startServer, type RunningServer } from '../../server/server';
+import { demoRequirement } from './fixtures';
 
 export type DemoRole = 'admin' | 'engineer' | 'engineer2' | 'reviewer' | 'viewer';
 
@@ -21,8 +22,9 @@ export interface TestServer extends RunningServer {
   waitForMail(predicate: (m: { to: string; subject: string; text: string; html: string | null }) => boolean, timeoutMs?: number): Promise<{ to: string; subject: string; text: string; html: string | null }>;
 }
 
-export async function startTestServer(overrides: Partial<Config> = {}, env: Record<string, string> = {}): Promise<TestServer> {
-  const dataDir = mkdtempSync(join(tmpdir(), 'vf-test-'));
+/** `dataDir` restarts on an existing data folder (kept on close); otherwise a fresh one is made and removed. */
+export async function startTestServer(overrides: Partial<Config> = {}, env: Record<string, string> = {}, existingDataDir?: string): Promise<TestServer> {
+  const dataDir = existingDataDir ?? mkdtempSync(join(tmpdir(), 'vf-test-'));
   const config = loadConfig(
     { NODE_ENV: 'test', PORT: '0', HOST: '127.0.0.1', VOLTFALL_DATA_DIR: dataDir, FAKE_SMTP_PORT: '0', LOG_LEVEL: 'silent', SIGN_IN_LIMIT_PER_15_MIN: '1000', ...env },
     overrides,
@@ -57,7 +59,7 @@ export async function startTestServer(overrides: Partial<Config> = {}, env: Reco
     },
     async close() {
       await running.close();
-      rmSync(dataDir, { recursive: true, force: true });
+      if (!existingDataDir) rmSync(dataDir, { recursive: true, force: true });
     },
   };
 }
@@ -72,4 +74,14 @@ export async function saveDraft(agent: supertest.Agent, revisionId: number, body
   const current = await agent.get(`/api/revisions/${revisionId}`);
   if (current.status !== 200) throw new Error(`reading revision ${revisionId} failed: ${current.status}`);
   return agent.patch(`/api/revisions/${revisionId}`).send({ ...body, version: current.body.version });
+}
+
+/** A fresh dossier (first product, demo requirement) and its revision 1 draft, authored by the engineer; `design` saved when given. */
+export async function newDraft(server: TestServer, title: string, design?: Record<string, unknown>): Promise<{ engineer: supertest.Agent; id: number; dossierId: number }> {
+  const engineer = await server.signIn('engineer');
+  const products = (await engineer.get('/api/products')).body;
+  const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title, requirement: demoRequirement })).body;
+  const id = dossier.revisions[0].id as number;
+  if (design) await engineer.patch(`/api/revisions/${id}`).send({ version: 1, design });
+  return { engineer, id, dossierId: dossier.id as number };
 }
