@@ -33,11 +33,29 @@ export const originCheck: RequestHandler = (req, _res, next) => {
   next();
 };
 
+/**
+ * The Cookie header without pairs whose percent-escapes are malformed: the session library's parser
+ * throws on one, and another site's stray cookie on this host must not turn every request into a 500.
+ */
+function decodableCookies(header: string): string {
+  return header
+    .split(';')
+    .filter((pair) => {
+      try {
+        decodeURIComponent(pair);
+        return true;
+      } catch {
+        return false;
+      }
+    })
+    .join(';');
+}
+
 /** Reads the session cookie; sets req.user for active users and refreshes the cookie when lucia asks. */
 export function sessionMiddleware(lucia: AuthLucia): RequestHandler {
   return async (req, res, next) => {
     try {
-      const sessionId = lucia.readSessionCookie(req.headers.cookie ?? '');
+      const sessionId = lucia.readSessionCookie(decodableCookies(req.headers.cookie ?? ''));
       if (!sessionId) return next();
       const { session, user } = await lucia.validateSession(sessionId);
       if (!session || !user || user.disabled) {
