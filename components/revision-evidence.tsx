@@ -46,7 +46,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
   async function pick() {
     const picked = await DocumentPicker.getDocumentAsync({ type: PICKER_TYPES[kind], multiple: false, copyToCacheDirectory: false });
     const asset = picked.canceled ? null : picked.assets[0];
-    if (asset?.file) upload.mutate({ file: asset.file, name: asset.name, kind, ...(kind === 'waveform' ? capture : {}) });
+    if (asset?.file) upload.mutate({ file: asset.file, name: asset.name, kind, version: revision.version, ...(kind === 'waveform' ? capture : {}) });
   }
 
   return (
@@ -68,6 +68,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
             </View>
           ) : null}
           {upload.error ? <Message tone="error" text={upload.error.message} testID="upload-error" /> : null}
+          {remove.error ? <Message tone="error" text={remove.error.message} testID="remove-error" /> : null}
           <View style={styles.button}>
             <Button label="Choose a file" testID="choose-file" busy={upload.isPending} onPress={pick} />
           </View>
@@ -120,7 +121,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
               Download
             </a>
             {editable ? (
-              <Button label="Remove" variant="quiet" testID={`remove-evidence-${e.id}`} busy={remove.isPending} onPress={() => remove.mutate(e.id)} />
+              <Button label="Remove" variant="quiet" testID={`remove-evidence-${e.id}`} busy={remove.isPending} onPress={() => remove.mutate({ evidenceId: e.id, version: revision.version })} />
             ) : null}
           </View>
         </Card>

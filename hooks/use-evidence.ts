@@ -11,9 +11,11 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
   const client = useQueryClient();
   const [progress, setProgress] = useState<number | null>(null);
   const mutation = useMutation({
-    mutationFn: async ({ file, kind, channel, markerChannel, t0 }: { file: Blob; name: string; kind: EvidenceKind; channel?: string; markerChannel?: string; t0?: string }) => {
+    mutationFn: async ({ file, kind, version, channel, markerChannel, t0 }: { file: Blob; name: string; kind: EvidenceKind; version: number; channel?: string; markerChannel?: string; t0?: string }) => {
       const form = new FormData();
       form.append('kind', kind);
+      // The version the list on screen belongs to: a list changed elsewhere meanwhile answers 409.
+      form.append('version', String(version));
       // Fields go before the file so the server reads them before the bytes arrive.
       if (channel) form.append('channel', channel);
       if (markerChannel) form.append('markerChannel', markerChannel);
@@ -26,7 +28,8 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
         setProgress(null);
       }
     },
-    onSuccess: () => {
+    // Refetched either way: after a 409 the list on screen is the one stored now.
+    onSettled: () => {
       void client.invalidateQueries({ queryKey: keys.revision(revisionId) });
       void client.invalidateQueries({ queryKey: keys.dossier(dossierId) });
     },
@@ -37,7 +40,7 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
 export function useRemoveEvidence(revisionId: number) {
   const client = useQueryClient();
   return useMutation({
-    mutationFn: (evidenceId: number) => apiSend<{ ok: true }>('DELETE', `/evidence/${evidenceId}`),
-    onSuccess: () => client.invalidateQueries({ queryKey: keys.revision(revisionId) }),
+    mutationFn: ({ evidenceId, version }: { evidenceId: number; version: number }) => apiSend<{ ok: true; revisionVersion: number }>('DELETE', `/evidence/${evidenceId}?version=${version}`),
+    onSettled: () => client.invalidateQueries({ queryKey: keys.revision(revisionId) }),
   });
 }

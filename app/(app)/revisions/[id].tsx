@@ -52,7 +52,10 @@ export default function RevisionScreen() {
         </Link>
       </View>
       <Tabs tabs={TABS} value={tab} onChange={setTab} testID="revision-tabs" />
-      {tab === 'design' ? <RevisionDesign key={`${rev.id}-${rev.status}`} revision={rev} me={me} /> : null}
+      {/* Kept mounted behind the other tabs: input still waiting to be saved, or a conflict, is not dropped. */}
+      <View style={tab !== 'design' && styles.hidden}>
+        <RevisionDesign key={`${rev.id}-${rev.status}`} revision={rev} me={me} />
+      </View>
       {tab === 'evidence' ? <RevisionEvidence revision={rev} me={me} /> : null}
       {tab === 'changes' ? <RevisionChanges revision={rev} /> : null}
       {tab === 'review' ? <RevisionReview revision={rev} me={me} /> : null}
@@ -63,4 +66,5 @@ export default function RevisionScreen() {
 const styles = StyleSheet.create({
   head: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' },
   link: { fontFamily: fonts.semibold, color: colors.info, textDecorationLine: 'underline' },
+  hidden: { display: 'none' },
 });
