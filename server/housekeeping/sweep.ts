@@ -42,11 +42,17 @@ export class Housekeeping {
     this.loop = new BackgroundLoop('data folder sweep', async () => void (await this.sweep(false)), log, SWEEP_EVERY_MS);
   }
 
-  /** At start-up nothing of this process is in progress, so its own temporary files go too. */
-  async startUp(): Promise<SweepReport> {
-    const report = await this.sweep(true);
+  /**
+   * At start-up nothing of this process is in progress, so its own temporary files go too. A sweep that
+   * fails here (a busy database) does not stop the server; the periodic one tries again.
+   */
+  async startUp(): Promise<void> {
+    try {
+      await this.sweep(true);
+    } catch (err) {
+      this.log.warn({ err }, 'the start-up sweep of the data folder failed; the periodic sweep will retry');
+    }
     this.loop.start();
-    return report;
   }
 
   stop(): Promise<void> {
@@ -67,7 +73,9 @@ export class Housekeeping {
       for (const f of orphans) await rm(join(this.evidence.dir, f), { force: true });
       for (const f of unsigned) await rm(join(this.dossiers, f), { force: true });
       // Releases of files that are gone, or in use again, have nothing left to time.
-      await forgetReleases(trx, [...released.keys()].filter((f) => orphans.includes(f) || used.has(f) || !evidenceFiles.includes(f)));
+      const gone = new Set(orphans);
+      const present = new Set(evidenceFiles);
+      await forgetReleases(trx, [...released.keys()].filter((f) => gone.has(f) || used.has(f) || !present.has(f)));
       return { orphans, unsigned };
     });
     const report = { tempFiles: temp.length, orphanEvidence: removed.orphans.length, orphanSignedDossiers: removed.unsigned.length };
