@@ -1,14 +1,14 @@
-import { useEffect, useRef, useState } from 'react';
+import { useEffect, useState } from 'react';
 import { StyleSheet, Text, useWindowDimensions, View } from 'react-native';
 import { colors, space, type, WIDE_BREAKPOINT } from '../constants/theme';
-import type { DesignDraft } from '../shared/schema/discharge';
 import { formatWhen } from '../shared/dates';
 import { formatQuantity } from '../shared/units';
-import { ApiError, type FieldError } from '../hooks/api';
+import type { FieldError } from '../hooks/api';
 import type { Revision } from '../hooks/types';
+import { useDraftAutosave, type SaveState } from '../hooks/use-draft-autosave';
 import type { Me } from '../hooks/use-me';
-import { useSaveRevision } from '../hooks/use-revision';
 import { DesignEditor } from './design-editor';
+import { EditConflict } from './edit-conflict';
 import { singleFaultText } from './requirement-editor';
 import { ResultsPanel } from './results-panel';
 import { dropHandedSnubber, peekHandedSnubber } from './snubber-handoff';
@@ -17,8 +17,6 @@ import { Card } from './ui/card';
 import { Message } from './ui/message';
 import { TextField } from './ui/text-field';
 
-const SAVE_DELAY_MS = 800;
-
 /** Measured traces, shifted so t = 0 is the disconnect instant like the predicted curves. */
 export function measuredTraces(revision: Pick<Revision, 'evidence'>) {
   return revision.evidence
@@ -26,60 +24,40 @@ export function measuredTraces(revision: Pick<Revision, 'evidence'>) {
     .map((e) => ({ name: e.originalName, trace: e.analysis!.trace.map((p) => ({ t: p.t - e.analysis!.t0, v: p.v })).filter((p) => p.t >= 0) }));
 }
 
+function saveWords(state: SaveState, editable: boolean, status: string): string {
+  switch (state.kind) {
+    case 'saving':
+      return 'Saving…';
+    case 'saved':
+      return `Saved ${formatWhen(state.at)} ✓`;
+    case 'invalid':
+      return '✕ Not saved: some inputs were not accepted.';
+    case 'failed':
+      return `✕ Not saved: ${state.message}`;
+    case 'conflict':
+      return '⚠ Not saved: this draft was changed elsewhere; choose below.';
+    case 'idle':
+      return editable ? 'Changes save as you type.' : `Frozen: ${status.replace('_', ' ')}.`;
+  }
+}
+
 /** The Design tab: inputs and notes (saved as they are typed, while a draft), and the server's results. */
 export function RevisionDesign({ revision, me }: { revision: Revision; me: Me }) {
   const editable = revision.status === 'draft' && (revision.author.id === me.id || me.role === 'admin');
-  const save = useSaveRevision(revision.id);
+  const { content, edit, state, keepMine, takeStored } = useDraftAutosave(revision, editable);
+  const { design, notes } = content;
+  const errors: FieldError[] = state.kind === 'invalid' ? state.fields : [];
+  const wide = useWindowDimensions().width >= WIDE_BREAKPOINT;
+  const saveProblem = state.kind === 'invalid' || state.kind === 'failed' || state.kind === 'conflict';
   // A snubber handed over from the sizing screen joins the list once, and is saved like a typed one.
   const [handed] = useState(() => peekHandedSnubber(revision.id));
-  const [design, setDesign] = useState<DesignDraft>(() => {
-    if (!handed || !editable) return revision.design;
-    const list = revision.design.snubbers ?? [];
-    return { ...revision.design, snubbers: [...list, { ...handed, name: `SN${list.length + 1}` }] };
-  });
-  const [notes, setNotes] = useState(revision.notes);
-  const [errors, setErrors] = useState<FieldError[]>([]);
-  const [savedAt, setSavedAt] = useState<string | null>(null);
-  const timer = useRef<ReturnType<typeof setTimeout> | null>(null);
-  const wide = useWindowDimensions().width >= WIDE_BREAKPOINT;
-
-  useEffect(() => () => {
-    if (timer.current) clearTimeout(timer.current);
-  }, []);
-
   useEffect(() => {
     if (!handed) return;
     dropHandedSnubber(revision.id);
-    if (editable) schedule({ design });
-    // Once, when the tab opens: the handed snubber is already in the first state of the design.
+    const list = design.snubbers ?? [];
+    if (editable) edit({ design: { ...design, snubbers: [...list, { ...handed, name: `SN${list.length + 1}` }] } });
+    // Once, when the tab opens.
   }, []);
-
-  function schedule(next: { design?: DesignDraft; notes?: string }) {
-    if (!editable) return;
-    if (timer.current) clearTimeout(timer.current);
-    timer.current = setTimeout(() => {
-      save.mutate(
-        { design: next.design ?? design, notes: next.notes ?? notes },
-        {
-          onSuccess: (rev) => {
-            setErrors([]);
-            setSavedAt(rev.updatedAt);
-          },
-          onError: (err) => setErrors(err instanceof ApiError ? err.fields : []),
-        },
-      );
-    }, SAVE_DELAY_MS);
-  }
-
-  const saveState = save.isPending
-    ? 'Saving…'
-    : save.isError
-      ? `Not saved: ${save.error.message}`
-      : savedAt
-        ? `Saved ${formatWhen(savedAt)}`
-        : editable
-          ? 'Changes save as you type.'
-          : `Frozen: ${revision.status.replace('_', ' ')}.`;
 
   return (
     // On a phone a frozen revision leads with its results: that is what a reader opens it for.
@@ -96,9 +74,10 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
           ) : null}
           {revision.dossier.requirement.reference ? <Text style={type.small}>Worked to: {revision.dossier.requirement.reference}</Text> : null}
         </Card>
-        <Text style={[type.small, save.isError && styles.error]} testID="save-state">
-          {saveState}
+        <Text style={[type.small, saveProblem && styles.error]} testID="save-state">
+          {saveWords(state, editable, revision.status)}
         </Text>
+        {state.kind === 'conflict' ? <EditConflict base={state.base} synced={state.synced} stored={state.stored} mine={content} onKeepMine={keepMine} onTakeStored={takeStored} /> : null}
         {errors.length ? <Message tone="error" text="Some inputs were not accepted; see the marked fields." /> : null}
         {handed ? (
           <Message
@@ -116,10 +95,7 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
           readOnly={!editable}
           testIDPrefix="rev"
           serverErrors={errors}
-          onChange={(next) => {
-            setDesign(next);
-            schedule({ design: next });
-          }}
+          onChange={(next) => edit({ design: next })}
         />
         <Card title="Snubbers">
           <SnubberListEditor
@@ -127,11 +103,7 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
             readOnly={!editable}
             testIDPrefix="rev-snubbers"
             serverErrors={errors}
-            onChange={(list) => {
-              const next = { ...design, snubbers: list };
-              setDesign(next);
-              schedule({ design: next });
-            }}
+            onChange={(list) => edit({ design: { ...design, snubbers: list } })}
           />
         </Card>
         <Card title="Notes">
@@ -141,10 +113,7 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
             multiline
             editable={editable}
             value={notes}
-            onChangeText={(text) => {
-              setNotes(text);
-              schedule({ notes: text });
-            }}
+            onChangeText={(text) => edit({ notes: text })}
           />
         </Card>
       </View>

@@ -49,7 +49,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
   const [toRemove, setToRemove] = useState<EvidenceRecord | null>(null);
   const [removed, setRemoved] = useState<string | null>(null);
   const confirmRemoval = (e: EvidenceRecord) =>
-    remove.mutate(e.id, {
+    remove.mutate({ evidenceId: e.id, version: revision.version }, {
       onSuccess: () => {
         setToRemove(null);
         setRemoved(e.originalName);
@@ -60,7 +60,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
     const picked = await DocumentPicker.getDocumentAsync({ type: PICKER_TYPES[kind], multiple: false, copyToCacheDirectory: false });
     const asset = picked.canceled ? null : picked.assets[0];
     const probeResistance = probe.value === null ? undefined : String(probe.value);
-    if (asset?.file) upload.mutate({ file: asset.file, name: asset.name, kind, ...(kind === 'waveform' ? { ...capture, probeResistance } : {}) });
+    if (asset?.file) upload.mutate({ file: asset.file, name: asset.name, kind, version: revision.version, ...(kind === 'waveform' ? { ...capture, probeResistance } : {}) });
   }
 
   return (
@@ -84,6 +84,7 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
             </View>
           ) : null}
           {upload.error ? <Message tone="error" text={upload.error.message} testID="upload-error" /> : null}
+          {remove.error ? <Message tone="error" text={remove.error.message} testID="remove-error" /> : null}
           <View style={styles.button}>
             <Button label="Choose a file" testID="choose-file" busy={upload.isPending} disabled={kind === 'waveform' && probe.invalid} onPress={pick} />
           </View>

@@ -11,6 +11,8 @@ export class ApiError extends Error {
     readonly code: string,
     message: string,
     readonly fields: FieldError[] = [],
+    /** The whole answer, for errors that carry more than the error (a stale write carries `current`). */
+    readonly body: unknown = null,
   ) {
     super(message);
   }
@@ -21,7 +23,7 @@ async function parse<T>(res: Response): Promise<T> {
   const body = text ? (JSON.parse(text) as unknown) : null;
   if (!res.ok) {
     const error = (body as { error?: { code: string; message: string; fields?: FieldError[] } } | null)?.error;
-    throw new ApiError(res.status, error?.code ?? 'http_error', error?.message ?? `The server answered ${res.status}.`, error?.fields);
+    throw new ApiError(res.status, error?.code ?? 'http_error', error?.message ?? `The server answered ${res.status}.`, error?.fields, body);
   }
   return body as T;
 }

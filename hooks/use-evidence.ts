@@ -14,6 +14,7 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
     mutationFn: async ({
       file,
       kind,
+      version,
       channel,
       markerChannel,
       t0,
@@ -23,6 +24,8 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
       file: Blob;
       name: string;
       kind: EvidenceKind;
+      /** The revision version the uploader last read. */
+      version: number;
       channel?: string;
       markerChannel?: string;
       t0?: string;
@@ -33,6 +36,8 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
     }) => {
       const form = new FormData();
       form.append('kind', kind);
+      // The version the list on screen belongs to: a list changed elsewhere meanwhile answers 409.
+      form.append('version', String(version));
       // Fields go before the file so the server reads them before the bytes arrive.
       if (channel) form.append('channel', channel);
       if (markerChannel) form.append('markerChannel', markerChannel);
@@ -47,7 +52,8 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
         setProgress(null);
       }
     },
-    onSuccess: () => {
+    // Refetched either way: after a 409 the list on screen is the one stored now.
+    onSettled: () => {
       void client.invalidateQueries({ queryKey: keys.revision(revisionId) });
       void client.invalidateQueries({ queryKey: keys.dossier(dossierId) });
     },
@@ -58,7 +64,7 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
 export function useRemoveEvidence(revisionId: number) {
   const client = useQueryClient();
   return useMutation({
-    mutationFn: (evidenceId: number) => apiSend<{ ok: true }>('DELETE', `/evidence/${evidenceId}`),
-    onSuccess: () => client.invalidateQueries({ queryKey: keys.revision(revisionId) }),
+    mutationFn: ({ evidenceId, version }: { evidenceId: number; version: number }) => apiSend<{ ok: true; revisionVersion: number }>('DELETE', `/evidence/${evidenceId}?version=${version}`),
+    onSettled: () => client.invalidateQueries({ queryKey: keys.revision(revisionId) }),
   });
 }

@@ -1,6 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { DesignDraft } from '../shared/schema/discharge';
-import { apiGet, apiSend } from './api';
+import type { RevisionView } from '../shared/schema/api';
+import { ApiError, apiGet, apiSend } from './api';
 import { keys } from './query-keys';
 import type { AuditReport, Revision, RevisionDiff, ReviewQueueItem } from './types';
 
@@ -20,25 +21,46 @@ function useInvalidateRevision() {
   };
 }
 
+/** The server's answer to a write based on an older version: the revision as it is stored now. */
+export function staleRevision(err: unknown): RevisionView | null {
+  return err instanceof ApiError && err.code === 'stale_version' ? ((err.body as { current?: RevisionView } | null)?.current ?? null) : null;
+}
+
+/** Puts a revision the server answered with into the page's copy without a refetch flicker while typing. */
+export function useStoreRevision(id: number) {
+  const client = useQueryClient();
+  return (rev: RevisionView) => client.setQueryData<Revision>(keys.revision(id), (old) => (old ? { ...old, ...rev } : old));
+}
+
+/** Saves a draft's inputs and notes on top of the version they were based on (409 when it is not the stored one). */
 export function useSaveRevision(id: number) {
   const client = useQueryClient();
+  const store = useStoreRevision(id);
   const invalidate = useInvalidateRevision();
   return useMutation({
-    mutationFn: (body: { design?: DesignDraft; notes?: string }) => apiSend<Revision>('PATCH', `/revisions/${id}`, body),
+    mutationFn: (body: { version: number; design?: DesignDraft; notes?: string }) => apiSend<Revision>('PATCH', `/revisions/${id}`, body),
     onSuccess: (rev) => {
-      // Keep the page's own copy fresh without a refetch flicker while typing.
-      client.setQueryData<Revision>(keys.revision(id), (old) => (old ? { ...old, ...rev } : old));
+      store(rev);
       void client.invalidateQueries({ queryKey: keys.diffs(id) });
       void client.invalidateQueries({ queryKey: keys.dossier(rev.dossierId) });
       void client.invalidateQueries({ queryKey: keys.overview });
     },
-    onError: () => invalidate({ id, dossierId: client.getQueryData<Revision>(keys.revision(id))?.dossierId ?? -1 }),
+    // A stale save is the caller's to resolve with the stored revision it carries; other failures refetch.
+    onError: (err) => {
+      if (!staleRevision(err)) invalidate({ id, dossierId: client.getQueryData<Revision>(keys.revision(id))?.dossierId ?? -1 });
+    },
   });
 }
 
+/** Submits the version the author is looking at; a newer stored one answers 409 instead of being frozen unseen. */
 export function useSubmitRevision(id: number) {
+  const client = useQueryClient();
   const invalidate = useInvalidateRevision();
-  return useMutation({ mutationFn: () => apiSend<Revision>('POST', `/revisions/${id}/submit`), onSuccess: invalidate });
+  return useMutation({
+    mutationFn: () => apiSend<Revision>('POST', `/revisions/${id}/submit`, { version: client.getQueryData<Revision>(keys.revision(id))?.version }),
+    onSuccess: invalidate,
+    onError: () => invalidate({ id, dossierId: client.getQueryData<Revision>(keys.revision(id))?.dossierId ?? -1 }),
+  });
 }
 
 export function useDecideRevision(id: number) {

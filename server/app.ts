@@ -5,8 +5,10 @@ import helmet from 'helmet';
 import { authRoutes } from './auth/routes';
 import { originCheck, sessionMiddleware } from './auth/middleware';
 import type { AppContext } from './context';
+import { writeGuard } from './data-folder';
 import type { DossierPdfService } from './dossier-pdf/domain';
 import { AppError, errorMiddleware } from './errors';
+import { rejectDeepJson } from './json-depth';
 import { requestLog } from './logging';
 import { outboxRoutes } from './outbox/routes';
 import { userRoutes } from './users/routes';
@@ -40,7 +42,13 @@ export function createApp(ctx: AppContext, pdf: DossierPdfService): Express {
 
   const api = express.Router();
   api.use(requestLog(ctx.log));
-  api.use(express.json({ limit: '2mb' }));
+  // Answers carry drafts, names and audit trails: never kept by a browser or a proxy.
+  api.use((_req, res, next) => {
+    res.setHeader('Cache-Control', 'no-store');
+    next();
+  });
+  api.use(express.json({ limit: '2mb', verify: rejectDeepJson() }));
+  api.use(writeGuard(ctx.config.dataDir));
   api.use(originCheck(ctx.config.publicUrl));
   api.use(sessionMiddleware(ctx.sessions));
   api.get('/health', (_req, res) => {

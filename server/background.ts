@@ -1,6 +1,61 @@
 import type { Logger } from 'pino';
 
 /**
+ * A periodic job that never takes the process down: a failure (a busy or full database, a mail relay
+ * that hangs up) is logged and the job runs again after a growing pause — 0.5 s, 1 s, 2 s … up to a
+ * minute — and back on its normal cadence after the first success.
+ */
+export class BackgroundLoop {
+  private timer: ReturnType<typeof setTimeout> | null = null;
+  private running: Promise<void> | null = null;
+  private failures = 0;
+  private stopped = true;
+
+  constructor(
+    private readonly name: string,
+    private readonly work: () => Promise<void>,
+    private readonly log: Logger,
+    private readonly intervalMs: number,
+    private readonly maxBackoffMs = 60_000,
+  ) {}
+
+  start(): void {
+    this.stopped = false;
+    this.schedule(this.intervalMs);
+  }
+
+  async stop(): Promise<void> {
+    this.stopped = true;
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = null;
+    await this.running;
+  }
+
+  /** Runs the job now (a run in progress is shared); resolves when it is done, never rejects. */
+  runNow(): Promise<void> {
+    this.running ??= this.work()
+      .then(() => {
+        this.failures = 0;
+      })
+      .catch((err: unknown) => {
+        this.failures += 1;
+        this.log.warn({ err, job: this.name, failures: this.failures }, `${this.name} failed; retrying`);
+      })
+      .finally(() => {
+        this.running = null;
+        if (!this.stopped) this.schedule(this.failures ? Math.min(500 * 2 ** (this.failures - 1), this.maxBackoffMs) : this.intervalMs);
+      });
+    return this.running;
+  }
+
+  private schedule(delayMs: number): void {
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = setTimeout(() => void this.runNow(), delayMs);
+  }
+}
+
+
+/**
  * Work that runs after the answer has gone out (so the answer's timing does not depend on it). A
  * failure is logged, never thrown into a request; closing the server waits for what is still running.
  */

@@ -1,5 +1,6 @@
 import { resolve } from 'node:path';
 import { z } from 'zod';
+import { StartupError } from './errors';
 
 const boolish = z
   .enum(['true', 'false', '1', '0', ''])
@@ -31,6 +32,8 @@ const envSchema = z.object({
   SESSION_SWEEP_MINUTES: z.coerce.number().positive().default(10),
   UPLOAD_LIMIT_WAVEFORM_MB: z.coerce.number().positive().default(512),
   UPLOAD_LIMIT_OTHER_MB: z.coerce.number().positive().default(25),
+  SQLITE_BUSY_TIMEOUT_MS: z.coerce.number().int().min(0).max(600_000).default(5_000),
+  EVIDENCE_ORPHAN_GRACE_HOURS: z.coerce.number().min(0).default(24),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
@@ -39,6 +42,8 @@ export interface Config {
   port: number;
   host: string;
   dataDir: string;
+  /** Only the default `./data` is created on a first start; a configured folder must exist. */
+  createDataDir: boolean;
   webDir: string;
   publicUrl: string | null;
   organisation: string;
@@ -60,6 +65,10 @@ export interface Config {
   trustProxy: false | number | string;
   sessions: { absoluteMs: number; idleMs: number; perUser: number; sweepMs: number };
   uploadLimits: { waveformBytes: number; otherBytes: number };
+  /** How long a write waits for another writer's lock before answering 503. */
+  busyTimeoutMs: number;
+  /** How long a stored file no evidence row references any more is kept before the sweep removes it. */
+  orphanGraceMs: number;
   logLevel: z.infer<typeof envSchema>['LOG_LEVEL'];
 }
 
@@ -80,7 +89,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
   const parsed = envSchema.safeParse(env);
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
-    throw new Error(`Invalid configuration: ${lines}`);
+    throw new StartupError(`invalid configuration: ${lines}`);
   }
   const e = parsed.data;
   const production = e.NODE_ENV === 'production';
@@ -89,6 +98,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     port: e.PORT,
     host: e.HOST,
     dataDir: resolve(e.VOLTFALL_DATA_DIR),
+    createDataDir: env.VOLTFALL_DATA_DIR === undefined,
     webDir: resolve(e.VOLTFALL_WEB_DIR),
     publicUrl: e.VOLTFALL_PUBLIC_URL ?? null,
     organisation: e.VOLTFALL_ORGANISATION,
@@ -113,6 +123,8 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       waveformBytes: Math.round(e.UPLOAD_LIMIT_WAVEFORM_MB * 1024 * 1024),
       otherBytes: Math.round(e.UPLOAD_LIMIT_OTHER_MB * 1024 * 1024),
     },
+    busyTimeoutMs: e.SQLITE_BUSY_TIMEOUT_MS,
+    orphanGraceMs: e.EVIDENCE_ORPHAN_GRACE_HOURS * 3600_000,
     logLevel: e.LOG_LEVEL,
     ...overrides,
   };
@@ -125,7 +137,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       !config.publicUrl && 'VOLTFALL_PUBLIC_URL',
     ].filter(Boolean);
     if (missing.length) {
-      throw new Error(`Production needs real mail and signing settings; missing: ${missing.join(', ')}`);
+      throw new StartupError(`production needs real mail and signing settings; missing: ${missing.join(', ')}`);
     }
   }
   return config;

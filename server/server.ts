@@ -1,16 +1,17 @@
-import { mkdirSync } from 'node:fs';
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
 import type { DestinationStream } from 'pino';
 import { createApp } from './app';
 import { Sessions } from './auth/sessions';
 import { Throttle } from './auth/throttle';
-import { Background } from './background';
+import { Background, BackgroundLoop } from './background';
 import { systemClock, type Clock } from './clock';
 import type { Config } from './config';
 import type { AppContext } from './context';
+import { assertDataFolderUsable } from './data-folder';
 import { openDatabase } from './db/knex';
 import { seedDemo } from './db/seed';
+import { Housekeeping } from './housekeeping/sweep';
 import { createLogger } from './logging';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { MailSender } from './mail/mailer';
@@ -23,6 +24,7 @@ export interface RunningServer {
   url: string;
   fakeSmtp: FakeSmtp | null;
   mail: MailSender;
+  housekeeping: Housekeeping;
   close(): Promise<void>;
 }
 
@@ -33,13 +35,18 @@ export interface StartOptions {
   logDestination?: DestinationStream;
 }
 
-/** Opens the data folder, migrates, seeds the demo outside production, starts mail and sweeps, and listens. */
+/**
+ * Checks the data folder, migrates, seeds the demo outside production, clears what interrupted uploads
+ * and approvals left behind, starts mail, the signing services and the periodic sweeps, and listens.
+ */
 export async function startServer(config: Config, options: StartOptions = {}): Promise<RunningServer> {
   const log = createLogger(config, options.logDestination);
   const clock = options.clock ?? systemClock;
-  mkdirSync(config.dataDir, { recursive: true });
-  const db = await openDatabase(config.dataDir);
+  assertDataFolderUsable(config.dataDir, config.createDataDir);
+  const db = await openDatabase(config.dataDir, config.busyTimeoutMs);
   if (config.seedDemo) await seedDemo(db, log);
+  const housekeeping = new Housekeeping(db, config.dataDir, config.orphanGraceMs, log);
+  await housekeeping.startUp();
 
   const fakeSmtp = config.production ? null : await startFakeSmtp(db, config.smtp.fakePort);
   const smtpUrl = config.smtp.url ?? fakeSmtp!.url;
@@ -60,7 +67,8 @@ export async function startServer(config: Config, options: StartOptions = {}): P
     signing,
     baseUrl: config.publicUrl ?? `http://localhost:${config.port}`,
   };
-  const sweep = setInterval(() => ctx.background.run('sweep expired sessions and throttles', () => sweepExpired(ctx)), config.sessions.sweepMs);
+  const sweep = new BackgroundLoop('sweep of expired sessions and throttles', () => sweepExpired(ctx), log, config.sessions.sweepMs);
+  sweep.start();
   const pdf = new DossierPdfService(ctx);
   // Tests start many servers and most never render a PDF; a production server should not make its first
   // approval wait for the worker to load.
@@ -78,10 +86,14 @@ export async function startServer(config: Config, options: StartOptions = {}): P
     url: `http://127.0.0.1:${port}`,
     fakeSmtp,
     mail,
+    housekeeping,
     async close() {
-      clearInterval(sweep);
-      await new Promise<void>((resolve) => server.close(() => resolve()));
+      await sweep.stop();
+      // Open connections (an upload in progress) are cut, which removes their temporary files.
+      const closed = new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeAllConnections();
+      await closed;
+      await housekeeping.stop();
       await ctx.background.settled();
       await mail.stop();
       await fakeSmtp?.close();

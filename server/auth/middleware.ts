@@ -35,11 +35,29 @@ export function originCheck(publicUrl: string | null): RequestHandler {
   };
 }
 
+/**
+ * The Cookie header without pairs whose percent-escapes are malformed: the cookie parser throws on one,
+ * and another site's stray cookie on this host must not turn every request into a 500.
+ */
+function decodableCookies(header: string): string {
+  return header
+    .split(';')
+    .filter((pair) => {
+      try {
+        decodeURIComponent(pair);
+        return true;
+      } catch {
+        return false;
+      }
+    })
+    .join(';');
+}
+
 /** Reads the session cookie; sets req.user while the session lives, and clears a cookie that no longer works. */
 export function sessionMiddleware(sessions: Sessions): RequestHandler {
   return async (req, res, next) => {
     try {
-      const token = sessions.readToken(req.headers.cookie);
+      const token = sessions.readToken(decodableCookies(req.headers.cookie ?? ''));
       if (!token) return next();
       const valid = await sessions.validate(token);
       if (!valid) {

@@ -92,5 +92,5 @@ export function clientAddress(req: Request): string {
 
 export function tooManyAttempts(retryAfterMs: number, what = 'sign-in attempts'): AppError {
   const minutes = Math.max(1, Math.ceil(retryAfterMs / MINUTE));
-  return new AppError(429, 'too_many_attempts', `Too many ${what}. Wait ${minutes} minute${minutes === 1 ? '' : 's'}, then try again.`, undefined, { 'Retry-After': String(Math.ceil(retryAfterMs / 1000)) });
+  return new AppError(429, 'too_many_attempts', `Too many ${what}. Wait ${minutes} minute${minutes === 1 ? '' : 's'}, then try again.`, undefined, { headers: { 'Retry-After': String(Math.ceil(retryAfterMs / 1000)) } });
 }

@@ -9,7 +9,7 @@ export function databaseFile(dataDir: string): string {
   return join(dataDir, 'voltfall.sqlite3');
 }
 
-export function knexConfig(file: string): Knex.Config {
+export function knexConfig(file: string, busyTimeoutMs = 5_000): Knex.Config {
   return {
     client: 'better-sqlite3',
     connection: { filename: file },
@@ -21,7 +21,8 @@ export function knexConfig(file: string): Knex.Config {
       afterCreate(conn: { pragma: (s: string) => unknown }, done: (err: Error | null, conn: unknown) => void) {
         conn.pragma('journal_mode = WAL');
         conn.pragma('foreign_keys = ON');
-        conn.pragma('busy_timeout = 5000');
+        // A writer waits this long for another connection's lock; after that the request answers 503.
+        conn.pragma(`busy_timeout = ${Math.round(busyTimeoutMs)}`);
         conn.pragma('synchronous = NORMAL');
         done(null, conn);
       },
@@ -30,9 +31,9 @@ export function knexConfig(file: string): Knex.Config {
   };
 }
 
-export async function openDatabase(dataDir: string): Promise<Db> {
+export async function openDatabase(dataDir: string, busyTimeoutMs?: number): Promise<Db> {
   mkdirSync(dataDir, { recursive: true });
-  const db = knexFactory(knexConfig(databaseFile(dataDir)));
+  const db = knexFactory(knexConfig(databaseFile(dataDir), busyTimeoutMs));
   await db.migrate.latest();
   return db;
 }

@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import * as m001 from './migrations/001-users-and-sessions';
 import * as m002 from './migrations/002-mail-and-audit';
 import * as m003 from './migrations/003-dossiers-and-revisions';
+import * as m004 from './migrations/004-revision-version-and-file-release';
 import * as m005 from './migrations/005-sessions-throttle-signatures';
 
 interface Migration {
@@ -14,6 +15,7 @@ const migrations: Record<string, Migration> = {
   '001-users-and-sessions': m001,
   '002-mail-and-audit': m002,
   '003-dossiers-and-revisions': m003,
+  '004-revision-version-and-file-release': m004,
   '005-sessions-throttle-signatures': m005,
 };
 

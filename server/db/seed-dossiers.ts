@@ -92,7 +92,8 @@ async function seedDossier(
       .returning('id');
     await appendAudit(trx, { actorId: r.author, action: 'revision.create', subjectType: 'revision', subjectId: row.id, dossierId: dossier.id, payload: { number: r.number } });
     if (submitted) {
-      await trx('revision').where({ id: row.id }).update({ status: 'in_review' });
+      // Submission is a stored change of the draft: its version moves on, as through the API.
+      await trx('revision').where({ id: row.id }).update({ status: 'in_review', version: 2 });
       await appendAudit(trx, { actorId: r.author, action: 'revision.submit', subjectType: 'revision', subjectId: row.id, dossierId: dossier.id, payload: { number: r.number, contentHash } });
     }
     if (r.decision) {

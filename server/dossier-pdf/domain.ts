@@ -1,10 +1,11 @@
-import { createHash, randomBytes } from 'node:crypto';
+import { createHash } from 'node:crypto';
 import { mkdirSync } from 'node:fs';
 import { readFile, rename, rm, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Knex } from 'knex';
 import type { AppContext } from '../context';
 import { AppError, conflict } from '../errors';
+import { tempFileName } from '../housekeeping/temp-files';
 import { buildPdfModel, type PendingDecision } from './build-model';
 import type { DossierPdfModel } from './model';
 import { PdfRenderPool } from './render-pool';
@@ -20,13 +21,15 @@ export interface PreparedDossier {
   discard(): Promise<void>;
 }
 
+export const signedDossierDir = (dataDir: string) => join(dataDir, 'dossiers');
+
 /** Signed dossiers live beside the evidence, one file per SHA-256 under `<dataDir>/dossiers/`. */
 export class DossierPdfService {
   private readonly dir: string;
   private readonly pool = new PdfRenderPool();
 
   constructor(private readonly ctx: AppContext) {
-    this.dir = join(ctx.config.dataDir, 'dossiers');
+    this.dir = signedDossierDir(ctx.config.dataDir);
     mkdirSync(this.dir, { recursive: true });
   }
 
@@ -87,7 +90,7 @@ export class DossierPdfService {
       throw new AppError(503, 'signing_unavailable', `The dossier could not be signed, so nothing was recorded: ${(error as Error).message} Try again later.`);
     }
     const sha256 = createHash('sha256').update(pdf).digest('hex');
-    const temp = join(this.dir, `${sha256}.${randomBytes(6).toString('hex')}.part`);
+    const temp = join(this.dir, tempFileName());
     const final = join(this.dir, sha256);
     await writeFile(temp, pdf);
     let placed = false;
@@ -95,8 +98,7 @@ export class DossierPdfService {
       sha256,
       size: pdf.length,
       commit: async (trx) => {
-        await rename(temp, final);
-        placed = true;
+        // The row first: it takes the write lock, so the data-folder sweep never sees the file without it.
         await trx('signed_dossier').insert({
           revision_id: revisionId,
           sha256,
@@ -106,6 +108,8 @@ export class DossierPdfService {
           signer_kind: setup.identity.kind,
           created_at: new Date().toISOString(),
         });
+        await rename(temp, final);
+        placed = true;
       },
       discard: async () => {
         await rm(placed ? final : temp, { force: true });

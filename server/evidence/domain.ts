@@ -1,14 +1,16 @@
 import { z } from 'zod';
 import { analysisOptionsSchema, channelRefSchema, probeResistanceFieldSchema, type WaveformAnalysis } from '../../shared/schema/waveform';
+import { versionSchema } from '../../shared/schema/workflow';
 import { appendAudit } from '../audit/chain';
 import type { SignedInUser } from '../auth/middleware';
 import type { AppContext } from '../context';
 import { AppError, conflict, forbidden, notFound, validationError } from '../errors';
-import { assertCanEdit, refreshDraftResults } from '../revisions/domain';
+import { assertCanEdit, assertVersion, refreshDraftResults } from '../revisions/domain';
 import { loadDossier, loadEvidence, loadRevision, type EvidenceRecord } from '../revisions/store';
 import { analyseCaptureFile, WaveformError } from './waveform/reader';
 import { sanitiseFileName, sniffMediaType, type EvidenceKind } from './sniff';
 import type { EvidenceStore, HashedFile } from './storage';
+import { fileIsReferenced, markFileReleased } from './store';
 
 export const uploadFieldsSchema = z.object({
   kind: z.enum(['waveform', 'image', 'datasheet', 'report', 'other'], 'Choose waveform, image, datasheet, report or other.'),
@@ -25,7 +27,11 @@ export const uploadFieldsSchema = z.object({
       .positive('The voltage scale must be greater than zero')
       .optional(),
   ),
+  // Optional for uploads, checked when sent: the revision version the uploader last read.
+  version: z.preprocess((v) => (v === '' || v === undefined ? undefined : typeof v === 'string' && /^[1-9][0-9]{0,15}$/.test(v) ? Number(v) : v), versionSchema.optional()),
 });
+
+export type StoredEvidence = EvidenceRecord & { revisionVersion: number };
 
 /** Before any byte is received: the revision must be a draft the user may change. */
 export async function assertMayAttach(ctx: AppContext, user: SignedInUser, revisionId: number): Promise<void> {
@@ -34,9 +40,9 @@ export async function assertMayAttach(ctx: AppContext, user: SignedInUser, revis
 }
 
 /**
- * attachEvidence: sniff the bytes, analyse a waveform, store the file under its hash, then in one
- * transaction add the evidence row, recompute the draft's results and record the audit event. Any
- * failure leaves neither a row nor a new file behind.
+ * attachEvidence: sniff the bytes, analyse a waveform, then in one transaction place the file under its
+ * hash, add the evidence row, recompute the draft's results (a new version) and record the audit event.
+ * Any failure leaves neither a row nor a new file behind.
  */
 export async function attachEvidence(
   ctx: AppContext,
@@ -45,12 +51,13 @@ export async function attachEvidence(
   revisionId: number,
   upload: HashedFile & { originalName: string },
   fields: unknown,
-): Promise<EvidenceRecord> {
-  let committed: { created: boolean } | null = null;
+): Promise<StoredEvidence> {
+  // Whether this upload put a new file in place (set inside the transaction, read by the cleanup below).
+  const placement = { created: false };
   try {
     const parsed = uploadFieldsSchema.safeParse(fields);
     if (!parsed.success) throw validationError(parsed.error);
-    const { kind, channel, markerChannel, t0, probeResistance, scale } = parsed.data;
+    const { kind, channel, markerChannel, t0, probeResistance, scale, version } = parsed.data;
     const limit = kind === 'waveform' ? ctx.config.uploadLimits.waveformBytes : ctx.config.uploadLimits.otherBytes;
     if (upload.size > limit) {
       throw new AppError(413, 'too_large', `A ${kind} file may be at most ${Math.round(limit / 1024 / 1024)} MB.`, [{ path: 'file', message: 'over the size limit' }]);
@@ -61,6 +68,8 @@ export async function attachEvidence(
 
     const rev = await loadRevision(ctx.db, revisionId);
     assertCanEdit(user, rev);
+    // Before a long analysis, not only at the end.
+    assertVersion(rev, version);
     const dossier = await loadDossier(ctx.db, rev.dossierId);
     let analysis: WaveformAnalysis | null = null;
     const options = analysisOptionsSchema.parse({ safeVoltage: dossier.requirement.safeVoltage, maxTime: dossier.requirement.maxTime, channel, markerChannel, t0, scale });
@@ -74,10 +83,10 @@ export async function attachEvidence(
       }
     }
 
-    committed = await store.commit(upload.path, upload.sha256);
-    const id = await ctx.db.transaction(async (trx) => {
-      const current = await trx('revision').where({ id: revisionId }).first('status');
-      if (current?.status !== 'draft') throw conflict('The revision was submitted meanwhile; its evidence list is frozen.');
+    const { id, revisionVersion } = await ctx.db.transaction(async (trx) => {
+      const current = await loadRevision(trx, revisionId);
+      if (current.status !== 'draft') throw conflict('The revision was submitted meanwhile; its evidence list is frozen.');
+      assertVersion(current, version);
       const [row] = await trx('evidence')
         .insert({
           revision_id: revisionId,
@@ -93,45 +102,55 @@ export async function attachEvidence(
           uploaded_at: new Date().toISOString(),
         })
         .returning('id');
-      await refreshDraftResults(trx, revisionId);
+      // After the row's insert has taken the write lock: the data-folder sweep never sees the file without it.
+      placement.created = (await store.place(upload.path, upload.sha256)).created;
+      const newVersion = await refreshDraftResults(trx, revisionId);
       await appendAudit(trx, {
         actorId: user.id,
         action: 'evidence.add',
         subjectType: 'evidence',
         subjectId: row.id,
         dossierId: rev.dossierId,
-        payload: { revisionId, name, kind, sha256: upload.sha256, size: upload.size },
+        payload: { revisionId, name, kind, sha256: upload.sha256, size: upload.size, version: newVersion },
       });
-      return row.id as number;
+      return { id: row.id as number, revisionVersion: newVersion };
     });
-    return (await loadEvidence(ctx.db, revisionId)).find((e) => e.id === id)!;
+    const record = (await loadEvidence(ctx.db, revisionId)).find((e) => e.id === id)!;
+    return { ...record, revisionVersion };
   } catch (err) {
     await store.discard(upload.path);
     // A file this upload created and no row refers to is removed again.
-    if (committed?.created && !(await ctx.db('evidence').where({ sha256: upload.sha256 }).first())) {
+    if (placement.created && !(await fileIsReferenced(ctx.db, upload.sha256))) {
       await store.discard(store.pathOf(upload.sha256));
     }
     throw err;
   }
 }
 
-/** removeEvidence: only from a draft, only by its author (or an admin); the stored file stays for other revisions. */
-export async function removeEvidence(ctx: AppContext, user: SignedInUser, evidenceId: number): Promise<void> {
+/**
+ * removeEvidence: only from a draft, only by its author (or an admin), and (when sent) only from the
+ * version the user last read; answers the revision's new version. The stored file stays while other
+ * revisions refer to it; otherwise its grace period starts and the sweep removes it later.
+ */
+export async function removeEvidence(ctx: AppContext, user: SignedInUser, evidenceId: number, version?: number): Promise<number> {
   const row = await ctx.db('evidence').where({ id: evidenceId }).first();
   if (!row) throw notFound('Evidence');
-  await ctx.db.transaction(async (trx) => {
+  return ctx.db.transaction(async (trx) => {
     const rev = await loadRevision(trx, row.revision_id);
     if (rev.status !== 'draft') throw conflict(`Revision ${rev.number} is frozen; its evidence cannot be removed.`);
     if (user.role !== 'admin' && rev.author.id !== user.id) throw forbidden('Only the author of this draft (or an admin) may remove its evidence.');
+    assertVersion(rev, version);
     await trx('evidence').where({ id: evidenceId }).delete();
-    await refreshDraftResults(trx, rev.id);
+    if (!(await fileIsReferenced(trx, row.storage_key))) await markFileReleased(trx, row.storage_key);
+    const newVersion = await refreshDraftResults(trx, rev.id);
     await appendAudit(trx, {
       actorId: user.id,
       action: 'evidence.remove',
       subjectType: 'evidence',
       subjectId: evidenceId,
       dossierId: rev.dossierId,
-      payload: { revisionId: rev.id, name: row.original_name, sha256: row.sha256 },
+      payload: { revisionId: rev.id, name: row.original_name, sha256: row.sha256, version: newVersion },
     });
+    return newVersion;
   });
 }

@@ -13,6 +13,18 @@ const ACCEPTED: Record<Exclude<EvidenceKind, 'other'>, { mimes: string[]; words:
   report: { mimes: ['application/pdf'], words: 'a PDF' },
 };
 
+// What a download may be labelled as: types a browser shows inertly or hands to a viewer. Everything
+// else — HTML, SVG, JavaScript, XML, unknown — is served as application/octet-stream.
+const SERVED_TYPES = new Set([
+  'text/plain', 'text/csv', 'text/tab-separated-values', 'application/pdf',
+  'image/png', 'image/jpeg', 'image/gif', 'image/webp', 'image/tiff', 'image/bmp', 'application/zip',
+]);
+
+/** The media type a stored file is served with: its sniffed type when on the allow-list, else a plain byte stream. */
+export function servedMediaType(sniffed: string): string {
+  return SERVED_TYPES.has(sniffed) ? sniffed : 'application/octet-stream';
+}
+
 /**
  * How the first bytes read as text: null for binary (NUL bytes, as binary formats nearly always have,
  * outside UTF-16), else whether they carry a UTF-16 byte-order mark. Text the capture reader cannot
@@ -42,7 +54,7 @@ export async function sniffMediaType(path: string, kind: EvidenceKind, originalN
   // A UTF-16 byte-order mark (FF FE) also opens an MPEG audio frame header, so text decides first.
   const detected = text === 'utf-16' ? undefined : await fileTypeFromFile(path);
   const mime = detected?.mime ?? (text ? 'text/plain' : 'application/octet-stream');
-  if (kind === 'other') return mime;
+  if (kind === 'other') return servedMediaType(mime);
   const rule = ACCEPTED[kind];
   if (!rule.mimes.includes(mime)) {
     const exportHint = kind === 'waveform' ? ` Export the capture from the instrument as ${TEXT_EXPORTS}.` : '';
@@ -53,10 +65,14 @@ export async function sniffMediaType(path: string, kind: EvidenceKind, originalN
   return kind === 'waveform' ? (/\.tsv$/i.test(originalName) ? 'text/tab-separated-values' : /\.csv$/i.test(originalName) ? 'text/csv' : 'text/plain') : mime;
 }
 
-/** Keeps a file name as harmless metadata: no path, no control characters, bounded length. */
+/**
+ * Keeps a file name as harmless metadata: no path, no control characters, no bidirectional overrides
+ * (they make "gpj.exe" read as "exe.jpg"), bounded length; every other character stays as typed (NFC).
+ */
 export function sanitiseFileName(name: string): string {
-  const base = name.split(/[\\/]/).pop() ?? '';
+  const base = name.normalize('NFC').split(/[\\/]/).pop() ?? '';
   // eslint-disable-next-line no-control-regex -- control characters are exactly what is removed.
-  const clean = base.replace(/[\u0000-\u001f\u007f]/g, '').replace(/^\.+/, '').trim().slice(0, 200);
-  return clean || 'unnamed';
+  const clean = base.replace(/[\u0000-\u001f\u007f\u202a-\u202e\u2066-\u2069]/g, '').replace(/^\.+/, '').trim();
+  // Cut by code points so a character outside the BMP is never split in half.
+  return [...clean].slice(0, 200).join('').trim() || 'unnamed';
 }

@@ -112,11 +112,13 @@ function assertMayDecide(user: SignedInUser, rev: Revision, decision: Omit<Decis
   }
 }
 
-/** addReviewComment: reviewers and the author may discuss a revision while it is in review. */
+/** addReviewComment: reviewers and the author may discuss a revision while it is in review, and only then. */
 export async function addReviewComment(ctx: AppContext, user: SignedInUser, revisionId: number, body: string): Promise<Revision> {
   await ctx.db.transaction(async (trx) => {
     const rev = await loadRevision(trx, revisionId);
     if (user.role !== 'reviewer' && user.id !== rev.author.id) throw forbidden('Only reviewers and the author comment on a revision.');
+    // A decided revision is a closed record, and a draft is not yet under review.
+    if (rev.status !== 'in_review') throw conflict(`Revision ${rev.number} is ${rev.status.replace('_', ' ')}; comments are taken only while it awaits review.`);
     await trx('review_comment').insert({ revision_id: revisionId, author_id: user.id, body, created_at: new Date().toISOString() });
     await appendAudit(trx, { actorId: user.id, action: 'revision.comment', subjectType: 'revision', subjectId: revisionId, dossierId: rev.dossierId, payload: { body } });
   });

@@ -16,6 +16,21 @@ export function assertCanEdit(user: SignedInUser, rev: Revision): void {
   if (user.role !== 'admin' && rev.author.id !== user.id) throw forbidden('Only the author of this draft (or an admin) may change it.');
 }
 
+/**
+ * A write based on an older version would overwrite what someone else stored meanwhile: refused with
+ * the revision as it is now, so the client can show what changed and let its user choose.
+ */
+export function assertVersion(rev: Revision, version: number | undefined): void {
+  if (version === undefined || version === rev.version) return;
+  throw new AppError(
+    409,
+    'stale_version',
+    `Revision ${rev.number} was changed elsewhere (it is at version ${rev.version}, this change was based on version ${version}); nothing was saved.`,
+    [{ path: 'version', message: `stale: the current version is ${rev.version}` }],
+    { body: { current: rev } },
+  );
+}
+
 /** createDraft: assert no open draft, copy inputs and notes (and evidence references) from the source, compute, audit. */
 export async function createDraft(ctx: AppContext, user: SignedInUser, dossierId: number, fromRevisionId?: number): Promise<Revision> {
   const dossier = await loadDossier(ctx.db, dossierId);
@@ -77,54 +92,64 @@ export async function updateDraft(ctx: AppContext, user: SignedInUser, revisionI
   await ctx.db.transaction(async (trx) => {
     const rev = await loadRevision(trx, revisionId);
     assertCanEdit(user, rev);
+    assertVersion(rev, patch.version);
     const dossier = await loadDossier(trx, rev.dossierId);
     const design = patch.design ?? rev.design;
     const notes = patch.notes ?? rev.notes;
     const results = computeRevisionResults(dossier.requirement, design, rev.evidence);
-    // The status guard makes a save that races a submit fail instead of changing a frozen revision.
-    const changed = await trx('revision').where({ id: revisionId, status: 'draft' }).update({
+    // The status and version guards make a save that races a submit or another writer fail instead of
+    // changing a frozen revision or overwriting a newer one.
+    const changed = await trx('revision').where({ id: revisionId, status: 'draft', version: patch.version }).update({
       design: JSON.stringify(design),
       notes,
       results: JSON.stringify(results),
       engine_version: results.engineVersion,
+      version: patch.version + 1,
       updated_at: new Date().toISOString(),
     });
-    if (!changed) throw conflict('This revision was submitted meanwhile and is frozen.');
+    if (!changed) throw conflict('This revision changed meanwhile; reload it.');
     await appendAudit(trx, {
       actorId: user.id,
       action: 'revision.update',
       subjectType: 'revision',
       subjectId: revisionId,
       dossierId: rev.dossierId,
-      payload: { fields: Object.keys(patch), verdict: results.verdict },
+      payload: { fields: Object.keys(patch).filter((k) => k !== 'version'), version: patch.version + 1, verdict: results.verdict },
     });
   });
   return loadRevision(ctx.db, revisionId);
 }
 
-/** Recomputes a draft's results after its evidence changed (inside the caller's transaction). */
-export async function refreshDraftResults(trx: Parameters<typeof loadRevision>[0], revisionId: number): Promise<void> {
+/** Recomputes a draft's results after its evidence changed and counts the change (inside the caller's transaction); answers the new version. */
+export async function refreshDraftResults(trx: Parameters<typeof loadRevision>[0], revisionId: number): Promise<number> {
   const rev = await loadRevision(trx, revisionId);
   const dossier = await loadDossier(trx, rev.dossierId);
   const results = computeRevisionResults(dossier.requirement, rev.design, rev.evidence);
-  await trx('revision').where({ id: revisionId, status: 'draft' }).update({ results: JSON.stringify(results), updated_at: new Date().toISOString() });
+  const changed = await trx('revision').where({ id: revisionId, status: 'draft', version: rev.version }).update({ results: JSON.stringify(results), version: rev.version + 1, updated_at: new Date().toISOString() });
+  if (!changed) throw conflict('This revision changed meanwhile; reload it.');
+  return rev.version + 1;
 }
 
-/** submitRevision: assert draft and author, freeze the content with its hash, audit, notify every reviewer. */
-export async function submitRevision(ctx: AppContext, user: SignedInUser, revisionId: number): Promise<Revision> {
+/**
+ * submitRevision: assert draft and author (and, when sent, that the author saw the current version),
+ * freeze the content with its hash, audit, notify every reviewer.
+ */
+export async function submitRevision(ctx: AppContext, user: SignedInUser, revisionId: number, version?: number): Promise<Revision> {
   await ctx.db.transaction(async (trx) => {
     const rev = await loadRevision(trx, revisionId);
     if (rev.author.id !== user.id) throw forbidden('Only the author may submit this revision.');
     if (rev.status !== 'draft') throw conflict(`Revision ${rev.number} is already ${rev.status.replace('_', ' ')}.`);
+    assertVersion(rev, version);
     const dossier = await loadDossier(trx, rev.dossierId);
     // Results are recomputed at submission so the frozen record matches the current engine.
     const results = computeRevisionResults(dossier.requirement, rev.design, rev.evidence);
     const contentHash = revisionContentHash({ ...rev, results });
     const now = new Date().toISOString();
-    const changed = await trx('revision').where({ id: revisionId, status: 'draft' }).update({
+    const changed = await trx('revision').where({ id: revisionId, status: 'draft', version: rev.version }).update({
       results: JSON.stringify(results),
       engine_version: results.engineVersion,
       content_hash: contentHash,
+      version: rev.version + 1,
       status: 'in_review',
       submitted_at: now,
       updated_at: now,

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { revisionPatchSchema } from '../../shared/schema/workflow';
+import { revisionPatchSchema, submitSchema } from '../../shared/schema/workflow';
 import { allow, currentUser } from '../auth/middleware';
 import { assertMaySee, maySee, visibleRevisions } from '../auth/need-to-know';
 import type { AppContext } from '../context';
@@ -25,13 +25,19 @@ export function revisionRoutes(ctx: AppContext): Router {
   });
 
   router.patch('/:id', allow('engineer', 'admin'), async (req, res) => {
+    // A change that does not say which version it was based on could overwrite a newer one.
+    if (req.body?.version === undefined) {
+      throw new AppError(428, 'version_required', 'Send the version of the revision you last read with every change.', [{ path: 'version', message: 'required' }]);
+    }
     const parsed = revisionPatchSchema.safeParse(req.body);
     if (!parsed.success) throw validationError(parsed.error, 'Some design inputs are not valid.');
     res.json(await updateDraft(ctx, currentUser(req), parseId(req.params.id), parsed.data));
   });
 
   router.post('/:id/submit', allow('engineer', 'admin'), async (req, res) => {
-    res.json(await submitRevision(ctx, currentUser(req), parseId(req.params.id)));
+    const parsed = submitSchema.safeParse(req.body ?? {});
+    if (!parsed.success) throw validationError(parsed.error);
+    res.json(await submitRevision(ctx, currentUser(req), parseId(req.params.id), parsed.data.version));
   });
 
   router.get('/:id/diff', allow(), async (req, res) => {

@@ -53,6 +53,7 @@ export async function loadRevision(db: Db, id: number): Promise<Revision> {
     dossierId: row.dossier_id,
     number: row.number,
     status: row.status,
+    version: row.version,
     design: JSON.parse(row.design) as DesignDraft,
     notes: row.notes,
     results: JSON.parse(row.results) as DischargeResult,

@@ -52,6 +52,8 @@ export interface RevisionView<E extends EvidenceView = EvidenceView> {
   dossierId: number;
   number: number;
   status: RevisionStatus;
+  /** +1 on every stored change of the draft (inputs, notes, evidence, submission); writes name the one they read. */
+  version: number;
   design: DesignDraft;
   notes: string;
   results: DischargeResult;

@@ -29,12 +29,18 @@ export const revisionCreateSchema = z.object({
 
 export const NOTES_MAX = 100_000;
 
+/** The revision version a write was based on (optimistic concurrency). */
+export const versionSchema = z.number({ error: 'Send the version of the revision you last read.' }).int().positive();
+
 export const revisionPatchSchema = z
   .object({
+    version: versionSchema,
     design: designDraftSchema.optional(),
     notes: z.string().max(NOTES_MAX, `Notes are limited to ${NOTES_MAX} characters.`).optional(),
   })
   .refine((v) => v.design !== undefined || v.notes !== undefined, 'Send design, notes or both.');
+
+export const submitSchema = z.object({ version: versionSchema.optional() });
 
 export const decisionSchema = z
   .object({

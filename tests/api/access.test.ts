@@ -2,7 +2,7 @@
 import type supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement } from '../support/fixtures';
-import { DEMO_PASSWORD, startTestServer, type DemoRole, type TestServer } from '../support/test-server';
+import { DEMO_PASSWORD, saveDraft, startTestServer, type DemoRole, type TestServer } from '../support/test-server';
 
 type Who = 'anonymous' | 'admin' | 'engineer' | 'reviewer' | 'viewer';
 const WHO: Who[] = ['anonymous', 'admin', 'engineer', 'reviewer', 'viewer'];
@@ -60,7 +60,8 @@ const TABLE: Row[] = [
   { method: 'get', path: (i) => `/api/revisions/${i.draftId}`, expect: { anonymous: 401, viewer: 404, signedIn: 200 } },
   { method: 'get', path: (i) => `/api/revisions/${i.inReviewId}`, expect: { anonymous: 401, viewer: 404, signedIn: 200 } },
   { method: 'get', path: (i) => `/api/revisions/${i.approvedId}`, expect: { anonymous: 401, signedIn: 200 } },
-  { method: 'patch', path: (i) => `/api/revisions/${i.draftId}`, body: {}, expect: { anonymous: 401, admin: 400, engineer: 400, signedIn: 403 } },
+  // A version but neither design nor notes: past the guard, refused by validation (without a version: 428).
+  { method: 'patch', path: (i) => `/api/revisions/${i.draftId}`, body: { version: 1 }, expect: { anonymous: 401, admin: 400, engineer: 400, signedIn: 403 } },
   // Authored by engineer2: the engineer and admin pass the role guard but are not the author.
   { method: 'post', path: (i) => `/api/revisions/${i.inReviewId}/submit`, expect: { anonymous: 401, admin: 403, engineer: 403, signedIn: 403 } },
   { method: 'get', path: (i) => `/api/revisions/${i.draftId}/diff`, expect: { anonymous: 401, signedIn: 404 } },
@@ -95,7 +96,7 @@ beforeAll(async () => {
   const productId = (await author.get('/api/products')).body[0].id;
   const dossier = (await author.post('/api/dossiers').send({ productId, title: 'Access table', requirement: demoRequirement })).body;
   const first = dossier.revisions[0].id;
-  await author.patch(`/api/revisions/${first}`).send({ design: demoDesign });
+  await saveDraft(author, first, { design: demoDesign });
   await author.post(`/api/revisions/${first}/submit`);
   const other = (await author.post('/api/dossiers').send({ productId, title: 'Access table draft', requirement: demoRequirement })).body;
   const users = (await agents.get('admin')!.get('/api/users')).body as Array<{ id: string; email: string }>;

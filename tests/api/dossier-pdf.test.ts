@@ -10,7 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { flat, pdfsig, pdftext, qpdfCheck } from '../pdf/poppler';
 import { nssDatabase } from '../pdf/signature-tools';
 import { demoDesign, demoRequirement } from '../support/fixtures';
-import { DEMO_PASSWORD, startTestServer, type TestServer } from '../support/test-server';
+import { DEMO_PASSWORD, saveDraft, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 let nss: string;
@@ -60,7 +60,7 @@ describe('dossier PDF through the API', () => {
     const products = (await engineer.get('/api/products')).body;
     const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Signed story', requirement: demoRequirement })).body;
     const id = dossier.revisions[0].id;
-    await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign, notes: 'Bleeder across the bank.' });
+    await saveDraft(engineer, id, { design: demoDesign, notes: 'Bleeder across the bank.' });
     const csv = ['t,v', ...Array.from({ length: 400 }, (_, i) => `${(i * 0.02).toFixed(3)},${(622 * Math.exp(-(i * 0.02) / 1.3)).toFixed(3)}`)].join('\n');
     const evidence = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(csv), 'bench.csv');
     expect(evidence.status).toBe(201);

@@ -3,7 +3,7 @@ import { request as httpRequest } from 'node:http';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement } from '../support/fixtures';
-import { startTestServer, type TestServer } from '../support/test-server';
+import { saveDraft, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 beforeAll(async () => {
@@ -27,7 +27,7 @@ async function draft(title: string) {
   const products = (await engineer.get('/api/products')).body;
   const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title, requirement: demoRequirement })).body;
   const id = dossier.revisions[0].id as number;
-  await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign });
+  await saveDraft(engineer, id, { design: demoDesign });
   return { engineer, id };
 }
 

@@ -2,7 +2,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startFakeSmtp } from '../../server/mail/fake-smtp';
 import { demoDesign, demoRequirement } from '../support/fixtures';
-import { startTestServer, type TestServer } from '../support/test-server';
+import { saveDraft, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 beforeAll(async () => {
@@ -16,7 +16,7 @@ describe('mail outage', () => {
     const products = (await engineer.get('/api/products')).body;
     const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Outage story', requirement: demoRequirement })).body;
     const id = dossier.revisions[0].id;
-    await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign });
+    await saveDraft(engineer, id, { design: demoDesign });
 
     const port = server.fakeSmtp!.port;
     await server.fakeSmtp!.close();

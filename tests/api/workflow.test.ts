@@ -2,7 +2,7 @@ import Database from 'better-sqlite3';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement, failingDesign } from '../support/fixtures';
-import { DEMO_PASSWORD, startTestServer, type TestServer } from '../support/test-server';
+import { DEMO_PASSWORD, saveDraft, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 beforeAll(async () => {
@@ -27,7 +27,7 @@ describe('the life of a revision', () => {
 
   it('when the author saves the design, then the server recomputes and stores the results with the engine version', async () => {
     const { engineer, draftId } = await newDossier();
-    const res = await engineer.patch(`/api/revisions/${draftId}`).send({ design: demoDesign, notes: 'First cut.' });
+    const res = await saveDraft(engineer, draftId, { design: demoDesign, notes: 'First cut.' });
     expect(res.status).toBe(200);
     expect(res.body.results.engineVersion).toMatch(/^\d+\.\d+\.\d+$/);
     expect(['meets', 'fails']).toContain(res.body.results.verdict);
@@ -36,7 +36,7 @@ describe('the life of a revision', () => {
 
   it('when a reviewer returns a revision, then the author is e-mailed with the comment and the revision is frozen', async () => {
     const { engineer, draftId } = await newDossier('Return story');
-    await engineer.patch(`/api/revisions/${draftId}`).send({ design: demoDesign });
+    await saveDraft(engineer, draftId, { design: demoDesign });
     const submitted = await engineer.post(`/api/revisions/${draftId}/submit`);
     expect(submitted.status).toBe(200);
     expect(submitted.body.status).toBe('in_review');
@@ -59,14 +59,14 @@ describe('the life of a revision', () => {
     expect(toAuthor.subject).toMatch(/was returned/);
     expect(toAuthor.text).toContain('Use the 85 °C TCR corner for R.');
 
-    const edit = await engineer.patch(`/api/revisions/${draftId}`).send({ notes: 'sneaky edit' });
+    const edit = await saveDraft(engineer, draftId, { notes: 'sneaky edit' });
     expect(edit.status).toBe(409);
     expect(edit.body.error.message).toMatch(/frozen/);
   });
 
   it('when the engineer starts revision 2 and changes a resistor, then the diff shows the change in units and the approval freezes it', async () => {
     const { engineer, dossier, draftId } = await newDossier('Diff story');
-    await engineer.patch(`/api/revisions/${draftId}`).send({ design: demoDesign, notes: 'Line one\nLine two\n' });
+    await saveDraft(engineer, draftId, { design: demoDesign, notes: 'Line one\nLine two\n' });
     await engineer.post(`/api/revisions/${draftId}/submit`);
     const reviewer = await server.signIn('reviewer');
     await reviewer.post(`/api/revisions/${draftId}/decision`).send({ decision: 'return', comment: 'Bleeder too slow.' });
@@ -80,7 +80,7 @@ describe('the life of a revision', () => {
     expect(another.status).toBe(409);
 
     const design2 = { ...demoDesign, bleeder: { ...demoDesign.bleeder, resistance: 68_000 } };
-    await engineer.patch(`/api/revisions/${second.body.id}`).send({ design: design2, notes: 'Line one\nLine 2 changed\n' });
+    await saveDraft(engineer, second.body.id, { design: design2, notes: 'Line one\nLine 2 changed\n' });
     const diff = await engineer.get(`/api/revisions/${second.body.id}/diff`);
     expect(diff.status).toBe(200);
     expect(diff.body.against.number).toBe(1);
@@ -115,20 +115,20 @@ describe('snubbers across revisions', () => {
       derating: 0.6, capacitorVoltageRating: 100, switchingVoltage: 48, overshoot: 0.3, switchingFrequency: 250e3, accessible: false,
       parasiticInductance: 633e-9, parasiticCapacitance: 100e-12,
     };
-    const first = await engineer.patch(`/api/revisions/${draftId}`).send({ design: { ...demoDesign, snubbers: [snubber] } });
+    const first = await saveDraft(engineer, draftId, { design: { ...demoDesign, snubbers: [snubber] } });
     expect(first.body.results.checks.map((c: { id: string }) => c.id)).toContain('snubber-power:0');
     await engineer.post(`/api/revisions/${draftId}/submit`);
     const reviewer = await server.signIn('reviewer');
     await reviewer.post(`/api/revisions/${draftId}/decision`).send({ decision: 'return', comment: 'Damping below 0.5 at C−.' });
     const second = (await engineer.post(`/api/dossiers/${dossier.id}/revisions`).send({})).body;
-    await engineer.patch(`/api/revisions/${second.id}`).send({ design: { ...demoDesign, snubbers: [{ ...snubber, resistance: 100 }] } });
+    await saveDraft(engineer, second.id, { design: { ...demoDesign, snubbers: [{ ...snubber, resistance: 100 }] } });
     const diff = (await engineer.get(`/api/revisions/${second.id}/diff`)).body;
     expect(diff.inputs).toEqual([expect.objectContaining({ path: 'snubbers[0].resistance', label: 'Snubber R12/C7: resistance', from: '82 Ω', to: '100 Ω' })]);
   });
 
   it('when a snubber is half typed, then the draft still saves and the verdict is incomplete', async () => {
     const { engineer, draftId } = await newDossier('Half-typed snubber');
-    const res = await engineer.patch(`/api/revisions/${draftId}`).send({ design: { ...demoDesign, snubbers: [{ kind: 'rc', name: 'R5', resistance: 47 }] } });
+    const res = await saveDraft(engineer, draftId, { design: { ...demoDesign, snubbers: [{ kind: 'rc', name: 'R5', resistance: 47 }] } });
     expect(res.status).toBe(200);
     expect(res.body.results.verdict).toBe('incomplete');
     expect(res.body.results.missing).toContain('design.snubbers.0.capacitance');
@@ -146,7 +146,7 @@ describe('separation of duties and permissions', () => {
     const products = (await asEngineer.get('/api/products')).body;
     const created = await asEngineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Self review', requirement: demoRequirement });
     const revId = created.body.revisions[0].id;
-    await asEngineer.patch(`/api/revisions/${revId}`).send({ design: demoDesign });
+    await saveDraft(asEngineer, revId, { design: demoDesign });
     await asEngineer.post(`/api/revisions/${revId}/submit`);
     await admin.patch(`/api/users/${reviewerUser.id}`).send({ role: 'reviewer' });
 
@@ -159,7 +159,7 @@ describe('separation of duties and permissions', () => {
   it('when another engineer edits someone else\'s draft, then 403; a viewer cannot create anything', async () => {
     const { draftId } = await newDossier('Ownership');
     const other = await server.signIn('engineer2');
-    const res = await other.patch(`/api/revisions/${draftId}`).send({ notes: 'not mine' });
+    const res = await saveDraft(other, draftId, { notes: 'not mine' });
     expect(res.status).toBe(403);
     const viewer = await server.signIn('viewer');
     expect((await viewer.post('/api/products').send({ name: 'x', modelNumber: 'y' })).status).toBe(403);
@@ -167,7 +167,7 @@ describe('separation of duties and permissions', () => {
 
   it('when a revision fails a check, then it cannot be approved, only returned', async () => {
     const { engineer, draftId } = await newDossier('Failing');
-    await engineer.patch(`/api/revisions/${draftId}`).send({ design: failingDesign });
+    await saveDraft(engineer, draftId, { design: failingDesign });
     await engineer.post(`/api/revisions/${draftId}/submit`);
     const reviewer = await server.signIn('reviewer');
     const res = await reviewer.post(`/api/revisions/${draftId}/decision`).send({ decision: 'approve', comment: 'looks fine', password: DEMO_PASSWORD });
@@ -178,7 +178,7 @@ describe('separation of duties and permissions', () => {
 
   it('when two reviewers decide at the same moment, then exactly one wins and the other gets 409', async () => {
     const { engineer, draftId } = await newDossier('Race');
-    await engineer.patch(`/api/revisions/${draftId}`).send({ design: demoDesign });
+    await saveDraft(engineer, draftId, { design: demoDesign });
     await engineer.post(`/api/revisions/${draftId}/submit`);
     const a = await server.signIn('reviewer');
     const b = await server.signIn('reviewer');
@@ -192,7 +192,7 @@ describe('separation of duties and permissions', () => {
   it('when design inputs are nonsense, then 400 names each field and nothing is saved', async () => {
     const { engineer, draftId } = await newDossier('Bad input');
     const before = (await engineer.get(`/api/revisions/${draftId}`)).body;
-    const res = await engineer.patch(`/api/revisions/${draftId}`).send({ design: { ...demoDesign, capacitors: { ...demoDesign.capacitors, capacitance: -1 }, bleeder: { ...demoDesign.bleeder, resistance: 'lots' } } });
+    const res = await saveDraft(engineer, draftId, { design: { ...demoDesign, capacitors: { ...demoDesign.capacitors, capacitance: -1 }, bleeder: { ...demoDesign.bleeder, resistance: 'lots' } } });
     expect(res.status).toBe(400);
     const paths = res.body.error.fields.map((f: { path: string }) => f.path);
     expect(paths).toEqual(expect.arrayContaining(['design.capacitors.capacitance', 'design.bleeder.resistance']));
@@ -204,7 +204,7 @@ describe('separation of duties and permissions', () => {
 describe('frozen in the database itself', () => {
   it('when someone updates or deletes a submitted revision with SQL, then SQLite refuses', async () => {
     const { engineer, draftId } = await newDossier('Direct SQL');
-    await engineer.patch(`/api/revisions/${draftId}`).send({ design: demoDesign });
+    await saveDraft(engineer, draftId, { design: demoDesign });
     await engineer.post(`/api/revisions/${draftId}/submit`);
     const raw = new Database(join(server.dataDir, 'voltfall.sqlite3'));
     try {

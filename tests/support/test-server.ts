@@ -7,6 +7,7 @@ import supertest from 'supertest';
 import { loadConfig, type Config } from '../../server/config';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../server/db/seed';
 import { startServer, type RunningServer, type StartOptions } from '../../server/server';
+import { demoRequirement } from './fixtures';
 
 export type DemoRole = 'admin' | 'engineer' | 'engineer2' | 'reviewer' | 'viewer';
 
@@ -32,13 +33,19 @@ export class FakeClock {
   }
 }
 
-export async function startTestServer(overrides: Partial<Config> = {}, env: Record<string, string> = {}, options: StartOptions = {}): Promise<TestServer> {
-  const dataDir = mkdtempSync(join(tmpdir(), 'vf-test-'));
+export interface TestServerOptions extends StartOptions {
+  /** Restart on this existing data folder (kept on close); otherwise a fresh one is made and removed. */
+  dataDir?: string;
+}
+
+export async function startTestServer(overrides: Partial<Config> = {}, env: Record<string, string> = {}, options: TestServerOptions = {}): Promise<TestServer> {
+  const { dataDir: existingDataDir, ...start } = options;
+  const dataDir = existingDataDir ?? mkdtempSync(join(tmpdir(), 'vf-test-'));
   const config = loadConfig(
     { NODE_ENV: 'test', PORT: '0', HOST: '127.0.0.1', VOLTFALL_DATA_DIR: dataDir, FAKE_SMTP_PORT: '0', LOG_LEVEL: 'silent', SIGN_IN_LIMIT_PER_15_MIN: '1000', ...env },
     overrides,
   );
-  const running = await startServer(config, options);
+  const running = await startServer(config, start);
   const origin = running.url;
   const agentFor = () => {
     const agent = supertest.agent(running.server);
@@ -68,9 +75,29 @@ export async function startTestServer(overrides: Partial<Config> = {}, env: Reco
     },
     async close() {
       await running.close();
-      rmSync(dataDir, { recursive: true, force: true });
+      if (!existingDataDir) rmSync(dataDir, { recursive: true, force: true });
     },
   };
 }
 
 export { DEMO_PASSWORD, DEMO_USERS };
+
+/**
+ * Saves a draft the way the app does: with the version it last read (for tests that are not about
+ * concurrency; those send versions themselves).
+ */
+export async function saveDraft(agent: supertest.Agent, revisionId: number, body: Record<string, unknown>): Promise<supertest.Response> {
+  const current = await agent.get(`/api/revisions/${revisionId}`);
+  if (current.status !== 200) throw new Error(`reading revision ${revisionId} failed: ${current.status}`);
+  return agent.patch(`/api/revisions/${revisionId}`).send({ ...body, version: current.body.version });
+}
+
+/** A fresh dossier (first product, demo requirement) and its revision 1 draft, authored by the engineer; `design` saved when given. */
+export async function newDraft(server: TestServer, title: string, design?: Record<string, unknown>): Promise<{ engineer: supertest.Agent; id: number; dossierId: number }> {
+  const engineer = await server.signIn('engineer');
+  const products = (await engineer.get('/api/products')).body;
+  const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title, requirement: demoRequirement })).body;
+  const id = dossier.revisions[0].id as number;
+  if (design) await engineer.patch(`/api/revisions/${id}`).send({ version: 1, design });
+  return { engineer, id, dossierId: dossier.id as number };
+}

@@ -55,7 +55,10 @@ export default function RevisionScreen() {
       </View>
       {rev.answersReturn ? <ReturnNote note={rev.answersReturn} toReader={rev.author.id === me.id} testID="return-note" /> : null}
       <Tabs tabs={TABS} value={tab} onChange={setTab} testID="revision-tabs" />
-      {tab === 'design' ? <RevisionDesign key={`${rev.id}-${rev.status}`} revision={rev} me={me} /> : null}
+      {/* Kept mounted behind the other tabs: input still waiting to be saved, or a conflict, is not dropped. */}
+      <View style={tab !== 'design' && styles.hidden}>
+        <RevisionDesign key={`${rev.id}-${rev.status}`} revision={rev} me={me} />
+      </View>
       {tab === 'evidence' ? <RevisionEvidence revision={rev} me={me} /> : null}
       {tab === 'changes' ? <RevisionChanges revision={rev} /> : null}
       {tab === 'review' ? <RevisionReview revision={rev} me={me} /> : null}
@@ -66,4 +69,5 @@ export default function RevisionScreen() {
 const styles = StyleSheet.create({
   head: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' },
   link: { fontFamily: fonts.semibold, color: colors.info, textDecorationLine: 'underline' },
+  hidden: { display: 'none' },
 });

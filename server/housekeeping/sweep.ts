@@ -1,0 +1,85 @@
+import { readdir, rm } from 'node:fs/promises';
+import { join } from 'node:path';
+import type { Logger } from 'pino';
+import { BackgroundLoop } from '../background';
+import type { Db } from '../db/knex';
+import { signedDossierDir } from '../dossier-pdf/domain';
+import { EvidenceStore, SHA256_NAME } from '../evidence/storage';
+import { fileReleases, forgetReleases, holdWriteLock, referencedEvidenceFiles, referencedSignedDossiers } from './store';
+import { sweepTempFiles } from './temp-files';
+
+/** A temporary file untouched this long belongs to an upload that will not finish. */
+export const TEMP_MAX_AGE_MS = 3600_000;
+const SWEEP_EVERY_MS = 10 * 60_000;
+
+export interface SweepReport {
+  tempFiles: number;
+  orphanEvidence: number;
+  orphanSignedDossiers: number;
+}
+
+const hashNamed = async (dir: string) => (await readdir(dir).catch(() => [] as string[])).filter((n) => SHA256_NAME.test(n));
+
+/**
+ * Keeps the data folder to what the database refers to: temporary files of interrupted uploads and
+ * signings, evidence files no row references (after the grace period when a draft released them, at
+ * once when nothing ever committed a row for them), signed dossiers of approvals that never committed.
+ * A file any evidence row references — every submitted revision's included — is never touched.
+ */
+export class Housekeeping {
+  private readonly loop: BackgroundLoop;
+  private readonly evidence: EvidenceStore;
+  private readonly dossiers: string;
+
+  constructor(
+    private readonly db: Db,
+    dataDir: string,
+    private readonly graceMs: number,
+    private readonly log: Logger,
+  ) {
+    this.evidence = new EvidenceStore(dataDir);
+    this.dossiers = signedDossierDir(dataDir);
+    this.loop = new BackgroundLoop('data folder sweep', async () => void (await this.sweep(false)), log, SWEEP_EVERY_MS);
+  }
+
+  /**
+   * At start-up nothing of this process is in progress, so its own temporary files go too. A sweep that
+   * fails here (a busy database) does not stop the server; the periodic one tries again.
+   */
+  async startUp(): Promise<void> {
+    try {
+      await this.sweep(true);
+    } catch (err) {
+      this.log.warn({ err }, 'the start-up sweep of the data folder failed; the periodic sweep will retry');
+    }
+    this.loop.start();
+  }
+
+  stop(): Promise<void> {
+    return this.loop.stop();
+  }
+
+  async sweep(startingUp: boolean, now = Date.now()): Promise<SweepReport> {
+    const temp = await sweepTempFiles([this.evidence.tmpDir, this.dossiers], TEMP_MAX_AGE_MS, startingUp, now);
+    const evidenceFiles = await hashNamed(this.evidence.dir);
+    const signedFiles = await hashNamed(this.dossiers);
+    const removed = await this.db.transaction(async (trx) => {
+      await holdWriteLock(trx);
+      const used = await referencedEvidenceFiles(trx);
+      const released = await fileReleases(trx);
+      const signed = await referencedSignedDossiers(trx);
+      const orphans = evidenceFiles.filter((f) => !used.has(f) && !(released.has(f) && now - Date.parse(released.get(f)!) < this.graceMs));
+      const unsigned = signedFiles.filter((f) => !signed.has(f));
+      for (const f of orphans) await rm(join(this.evidence.dir, f), { force: true });
+      for (const f of unsigned) await rm(join(this.dossiers, f), { force: true });
+      // Releases of files that are gone, or in use again, have nothing left to time.
+      const gone = new Set(orphans);
+      const present = new Set(evidenceFiles);
+      await forgetReleases(trx, [...released.keys()].filter((f) => gone.has(f) || used.has(f) || !present.has(f)));
+      return { orphans, unsigned };
+    });
+    const report = { tempFiles: temp.length, orphanEvidence: removed.orphans.length, orphanSignedDossiers: removed.unsigned.length };
+    if (report.tempFiles || report.orphanEvidence || report.orphanSignedDossiers) this.log.info(report, 'removed leftover files from the data folder');
+    return report;
+  }
+}
