@@ -104,7 +104,7 @@ beforeAll(async () => {
 
   const signed = (await author.post('/api/dossiers').send({ productId, title: 'Access table approved', requirement: demoRequirement })).body;
   const approvedId = signed.revisions[0].id;
-  await author.patch(`/api/revisions/${approvedId}`).send({ design: demoDesign });
+  await saveDraft(author, approvedId, { design: demoDesign });
   const approvedEvidence = await author.post(`/api/revisions/${approvedId}/evidence`).field('kind', 'other').attach('file', Buffer.from('test report'), 'report.txt');
   await author.post(`/api/revisions/${approvedId}/submit`);
   const approval = await agents.get('reviewer')!.post(`/api/revisions/${approvedId}/decision`).send({ decision: 'approve', comment: 'ok', password: DEMO_PASSWORD });

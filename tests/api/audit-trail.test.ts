@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { auditSentence } from '../../shared/audit-sentences';
 import { captureCsv } from '../support/captures';
 import { demoDesign, demoRequirement } from '../support/fixtures';
-import { startTestServer, type TestServer } from '../support/test-server';
+import { saveDraft, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 beforeAll(async () => {
@@ -19,7 +19,7 @@ describe('audit trail in words', () => {
     const products = (await engineer.get('/api/products')).body;
     const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Audit words', requirement: demoRequirement })).body;
     const first = dossier.revisions[0].id as number;
-    await engineer.patch(`/api/revisions/${first}`).send({ design: demoDesign, notes: 'First cut.' }).expect(200);
+    expect((await saveDraft(engineer, first, { design: demoDesign, notes: 'First cut.' })).status).toBe(200);
     const upload = await engineer.post(`/api/revisions/${first}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(captureCsv(1.3)), 'bench-rev1.csv');
     expect(upload.status).toBe(201);
     await engineer.post(`/api/revisions/${first}/submit`).expect(200);

@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import type supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign } from '../support/fixtures';
-import { newDraft, startTestServer, type TestServer } from '../support/test-server';
+import { DEMO_PASSWORD, newDraft, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 beforeAll(async () => {
@@ -162,7 +162,7 @@ describe('comments belong to the review', () => {
     await approved.engineer.post(`/api/revisions/${approved.id}/submit`);
     const during = await reviewer.post(`/api/revisions/${approved.id}/comments`).send({ body: 'Which TCR corner?' });
     expect(during.status).toBe(201);
-    await reviewer.post(`/api/revisions/${approved.id}/decision`).send({ decision: 'approve', comment: 'ok' });
+    await reviewer.post(`/api/revisions/${approved.id}/decision`).send({ decision: 'approve', comment: 'ok', password: DEMO_PASSWORD });
     const after = await reviewer.post(`/api/revisions/${approved.id}/comments`).send({ body: 'late remark' });
     expect(after.status).toBe(409);
     expect(after.body.error.message).toMatch(/approved/);

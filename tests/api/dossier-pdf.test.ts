@@ -42,7 +42,7 @@ async function revisionInReview(title: string): Promise<{ engineer: supertest.Ag
   const products = (await engineer.get('/api/products')).body;
   const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title, requirement: demoRequirement })).body;
   const id = dossier.revisions[0].id;
-  await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign });
+  await saveDraft(engineer, id, { design: demoDesign });
   await engineer.post(`/api/revisions/${id}/submit`);
   return { engineer, reviewer, id };
 }

@@ -11,6 +11,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { pdfsig } from '../pdf/poppler';
 import { demoDesign, demoRequirement } from '../support/fixtures';
 import { spawnServer, type ServerProcess } from '../support/server-process';
+import { DEMO_PASSWORD } from '../support/test-server';
 import { sessionCookie, startSlowUpload } from '../support/uploads';
 
 const dataDir = mkdtempSync(join(tmpdir(), 'vf-kill-'));
@@ -22,7 +23,7 @@ beforeAll(async () => {
   // The first approval on a new data folder creates the development signing certificate; get that done.
   const engineer = await sessionCookie(server.url, 'engineer@fennel.test');
   const reviewer = await sessionCookie(server.url, 'reviewer@fennel.test');
-  await api(reviewer, 'POST', `/revisions/${await revisionInReview(engineer, 'First approval')}/decision`, { decision: 'approve', comment: 'creates the certificate' });
+  await api(reviewer, 'POST', `/revisions/${await revisionInReview(engineer, 'First approval')}/decision`, { decision: 'approve', comment: 'creates the certificate', password: DEMO_PASSWORD });
 }, 300_000);
 afterAll(async () => {
   await server?.kill();
@@ -125,7 +126,7 @@ describe('SIGKILL and restart on the same data folder', () => {
     for (const f of fractions) ids.push(await revisionInReview(engineer, `Approval killed at ${f * 100} %`));
     let reviewer = await sessionCookie(server.url, 'reviewer@fennel.test');
     const t0 = Date.now();
-    await api(reviewer, 'POST', `/revisions/${timed}/decision`, { decision: 'approve', comment: 'measured' });
+    await api(reviewer, 'POST', `/revisions/${timed}/decision`, { decision: 'approve', comment: 'measured', password: DEMO_PASSWORD });
     const approvalMs = Date.now() - t0;
     figures.push(`the first approval in a fresh process (render, sign, commit) took ${approvalMs} ms`);
     await killAndRestart('fresh process for the approval kills');
@@ -135,7 +136,7 @@ describe('SIGKILL and restart on the same data folder', () => {
       const request = fetch(`${server.url}/api/revisions/${id}/decision`, {
         method: 'POST',
         headers: { Cookie: reviewer, Origin: server.url, 'Content-Type': 'application/json' },
-        body: JSON.stringify({ decision: 'approve', comment: 'approved as the process dies' }),
+        body: JSON.stringify({ decision: 'approve', comment: 'approved as the process dies', password: DEMO_PASSWORD }),
       }).catch(() => null);
       const delay = Math.round(fractions[i] * approvalMs);
       await new Promise((r) => setTimeout(r, delay));
@@ -152,7 +153,7 @@ describe('SIGKILL and restart on the same data folder', () => {
     reviewer = await sessionCookie(server.url, 'reviewer@fennel.test');
     for (const id of ids) {
       const rev = await api(reviewer, 'GET', `/revisions/${id}`);
-      if (rev.status === 'in_review') await api(reviewer, 'POST', `/revisions/${id}/decision`, { decision: 'approve', comment: 'after the restart' });
+      if (rev.status === 'in_review') await api(reviewer, 'POST', `/revisions/${id}/decision`, { decision: 'approve', comment: 'after the restart', password: DEMO_PASSWORD });
       expect(await checkDataFolder(id)).toBe('approved');
     }
     expect(existsSync(join(dataDir, 'voltfall.sqlite3'))).toBe(true);

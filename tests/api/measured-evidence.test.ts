@@ -2,7 +2,7 @@
 // worst case, one check per capture paired across revisions by the file, and single-fault checks.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement } from '../support/fixtures';
-import { startTestServer, type TestServer } from '../support/test-server';
+import { saveDraft, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 beforeAll(async () => {
@@ -25,7 +25,7 @@ async function draft(title: string, requirement: object = demoRequirement) {
   const products = (await engineer.get('/api/products')).body;
   const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title, requirement })).body;
   const id = dossier.revisions[0].id as number;
-  await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign });
+  await saveDraft(engineer, id, { design: demoDesign });
   return { engineer, id, dossierId: dossier.id as number };
 }
 
@@ -111,7 +111,7 @@ describe('one check per capture, paired across revisions by the file', () => {
     // Revision 2 carries the file; a higher maximum bus changes its referred figure.
     const second = (await engineer.post(`/api/dossiers/${dossierId}/revisions`).send({ fromRevisionId: first })).body;
     expect(second.evidence.map((e: { sha256: string }) => e.sha256)).toEqual([a.body.sha256]);
-    await engineer.patch(`/api/revisions/${second.id}`).send({ design: { ...demoDesign, bus: { nominalVoltage: 565, maxVoltage: 700 } } });
+    await saveDraft(engineer, second.id, { design: { ...demoDesign, bus: { nominalVoltage: 565, maxVoltage: 700 } } });
     const carried = (await engineer.get(`/api/revisions/${second.id}/diff`)).body;
     const pairedA = carried.checks.filter((c: { id: string }) => c.id.endsWith(`:${keyA}`));
     expect(pairedA.map((c: { id: string; kind: string }) => [c.id, c.kind])).toContainEqual([`measured-discharge:${keyA}`, 'value-changed']);

@@ -4,7 +4,7 @@
 import type supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement } from '../support/fixtures';
-import { DEMO_PASSWORD, startTestServer, type TestServer } from '../support/test-server';
+import { DEMO_PASSWORD, saveDraft, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 let viewer: supertest.Agent;
@@ -39,7 +39,7 @@ describe('a viewer and unfinished work', () => {
     const products = (await engineer.get('/api/products')).body;
     const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Evidence on the way to approval', requirement: demoRequirement })).body;
     const id = dossier.revisions[0].id;
-    await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign });
+    await saveDraft(engineer, id, { design: demoDesign });
     const evidence = (await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'other').attach('file', Buffer.from('bench notes'), 'notes.txt')).body;
     expect((await viewer.get(`/api/evidence/${evidence.id}/file`)).status).toBe(404);
     expect((await viewer.get(`/api/dossiers/${dossier.id}`)).status).toBe(404);
@@ -109,15 +109,15 @@ describe('what a viewer lists', () => {
     const reviewer = await server.signIn('reviewer');
     const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Approved, returned, approved', requirement: demoRequirement })).body;
     const r1 = dossier.revisions[0].id;
-    await engineer.patch(`/api/revisions/${r1}`).send({ design: demoDesign });
+    await saveDraft(engineer, r1, { design: demoDesign });
     await engineer.post(`/api/revisions/${r1}/submit`);
     await reviewer.post(`/api/revisions/${r1}/decision`).send({ decision: 'approve', password: DEMO_PASSWORD });
     const r2 = (await engineer.post(`/api/dossiers/${dossier.id}/revisions`).send({ fromRevisionId: r1 })).body.id;
-    await engineer.patch(`/api/revisions/${r2}`).send({ design: { ...demoDesign, bleeder: { ...demoDesign.bleeder, resistance: 90_000 } } });
+    await saveDraft(engineer, r2, { design: { ...demoDesign, bleeder: { ...demoDesign.bleeder, resistance: 90_000 } } });
     await engineer.post(`/api/revisions/${r2}/submit`);
     await reviewer.post(`/api/revisions/${r2}/decision`).send({ decision: 'return', comment: 'Keep 100 kΩ.' });
     const r3 = (await engineer.post(`/api/dossiers/${dossier.id}/revisions`).send({ fromRevisionId: r2 })).body.id;
-    await engineer.patch(`/api/revisions/${r3}`).send({ design: { ...demoDesign, bleeder: { ...demoDesign.bleeder, resistance: 82_000 } } });
+    await saveDraft(engineer, r3, { design: { ...demoDesign, bleeder: { ...demoDesign.bleeder, resistance: 82_000 } } });
     await engineer.post(`/api/revisions/${r3}/submit`);
     expect((await reviewer.post(`/api/revisions/${r3}/decision`).send({ decision: 'approve', password: DEMO_PASSWORD })).status).toBe(200);
 

@@ -2,7 +2,7 @@
 // Overview ("Returned to you: …") and at the top of the revision that answers it.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement } from '../support/fixtures';
-import { DEMO_PASSWORD, startTestServer, type TestServer } from '../support/test-server';
+import { DEMO_PASSWORD, saveDraft, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 beforeAll(async () => {
@@ -18,7 +18,7 @@ async function returnedRevision(title: string) {
   const products = (await engineer.get('/api/products')).body;
   const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title, requirement: demoRequirement })).body;
   const first = dossier.revisions[0].id as number;
-  await engineer.patch(`/api/revisions/${first}`).send({ design: demoDesign });
+  await saveDraft(engineer, first, { design: demoDesign });
   await engineer.post(`/api/revisions/${first}/submit`).expect(200);
   await reviewer.post(`/api/revisions/${first}/decision`).send({ decision: 'return', comment: REASON }).expect(200);
   return { engineer, reviewer, dossier, first };

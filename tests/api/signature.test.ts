@@ -3,7 +3,7 @@
 // name, role, the meaning of the signature and the time.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement } from '../support/fixtures';
-import { DEMO_PASSWORD, FakeClock, startTestServer, type TestServer } from '../support/test-server';
+import { DEMO_PASSWORD, FakeClock, saveDraft, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 const clock = new FakeClock();
@@ -17,7 +17,7 @@ async function submittedRevision(title: string): Promise<number> {
   const products = (await engineer.get('/api/products')).body;
   const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title, requirement: demoRequirement })).body;
   const id = dossier.revisions[0].id as number;
-  await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign });
+  await saveDraft(engineer, id, { design: demoDesign });
   expect((await engineer.post(`/api/revisions/${id}/submit`)).status).toBe(200);
   return id;
 }

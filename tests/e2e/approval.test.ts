@@ -3,7 +3,7 @@
 // At phone and wide widths.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement } from '../support/fixtures';
-import { DEMO_PASSWORD } from '../support/test-server';
+import { DEMO_PASSWORD, saveDraft } from '../support/test-server';
 import { openBrowser, PHONE, WIDE, type Browser } from './browser';
 
 let browser: Browser;
@@ -18,7 +18,7 @@ async function awaitingReview(title: string): Promise<{ id: number; product: str
   const product = (await engineer.get('/api/products')).body[0] as { id: number; name: string };
   const dossier = (await engineer.post('/api/dossiers').send({ productId: product.id, title, requirement: demoRequirement })).body;
   const id = dossier.revisions[0].id as number;
-  await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign });
+  await saveDraft(engineer, id, { design: demoDesign });
   expect((await engineer.post(`/api/revisions/${id}/submit`)).status).toBe(200);
   return { id, product: product.name };
 }

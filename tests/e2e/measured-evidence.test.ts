@@ -4,6 +4,7 @@
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement } from '../support/fixtures';
+import { saveDraft } from '../support/test-server';
 import { openBrowser, PHONE, WIDE, type Browser } from './browser';
 
 let browser: Browser;
@@ -74,13 +75,13 @@ describe('single-fault checks and referred captures in the browser', () => {
     const products = (await api.get('/api/products')).body;
     const dossier = (await api.post('/api/dossiers').send({ productId: products[0].id, title: 'Browser: referred capture', requirement: { ...demoRequirement, singleFault: true } })).body;
     const first = dossier.revisions[0].id as number;
-    await api.patch(`/api/revisions/${first}`).send({ design: twoStrings });
+    await saveDraft(api, first, { design: twoStrings });
     const a = await api.post(`/api/revisions/${first}/evidence`).field('kind', 'waveform').attach('file', capture(622, 0.66), 'bench-rev1.csv');
     expect(a.status).toBe(201);
     expect((await api.post(`/api/revisions/${first}/submit`)).status).toBe(200);
     const second = (await api.post(`/api/dossiers/${dossier.id}/revisions`).send({ fromRevisionId: first })).body.id as number;
     // Revision 2: 120 kΩ parts (nominal τ = 120 kΩ × 6.6 µF = 0.792 s); the single-fault figures move with them.
-    await api.patch(`/api/revisions/${second}`).send({ design: { ...twoStrings, bleeder: { ...twoStrings.bleeder, resistance: 120e3 } } });
+    await saveDraft(api, second, { design: { ...twoStrings, bleeder: { ...twoStrings.bleeder, resistance: 120e3 } } });
 
     for (const [name, size] of [
       ['phone', PHONE],

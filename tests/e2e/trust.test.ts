@@ -5,6 +5,7 @@ import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { uploadCapture } from '../support/captures';
 import { demoDesign, demoRequirement } from '../support/fixtures';
+import { saveDraft } from '../support/test-server';
 import { openBrowser, PHONE, WIDE, type Browser } from './browser';
 import { expectTidy } from './layout-checks';
 
@@ -22,7 +23,7 @@ async function dossierWithDraft(title: string) {
   const products = (await engineer.get('/api/products')).body;
   const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title, requirement: demoRequirement })).body;
   const first = dossier.revisions[0].id as number;
-  await engineer.patch(`/api/revisions/${first}`).send({ design: demoDesign });
+  await saveDraft(engineer, first, { design: demoDesign });
   return { engineer, dossierId: dossier.id as number, first };
 }
 
@@ -201,7 +202,7 @@ describe('screens a certification engineer trusts', { timeout: 180_000 }, () => 
       await engineer.post(`/api/revisions/${second}/submit`).expect(200);
       await reviewer.post(`/api/revisions/${second}/decision`).send({ decision: 'return', comment: 'One more corner.' }).expect(200);
       const third = (await engineer.post(`/api/dossiers/${dossierId}/revisions`).send({}).expect(201)).body.id as number;
-      await engineer.patch(`/api/revisions/${third}`).send({ design: { ...demoDesign, bleeder: { ...demoDesign.bleeder, resistance: 68_000 } } }).expect(200);
+      expect((await saveDraft(engineer, third, { design: { ...demoDesign, bleeder: { ...demoDesign.bleeder, resistance: 68_000 } } })).status).toBe(200);
 
       await p.page.goto(`${browser.server.url}/revisions/${third}?tab=changes`);
       await p.page.getByTestId('changes').waitFor();
@@ -224,7 +225,7 @@ describe('screens a certification engineer trusts', { timeout: 180_000 }, () => 
   it('when a reviewer reads a long audit trail on a phone, then every event is there as a sentence, a page at a time', async () => {
     const { engineer, dossierId, first } = await dossierWithDraft('Long audit trail');
     // 30 saves: with the dossier and revision created and the first save, 33 events.
-    for (let i = 0; i < 30; i += 1) await engineer.patch(`/api/revisions/${first}`).send({ notes: `Note ${i + 1}` }).expect(200);
+    for (let i = 0; i < 30; i += 1) expect((await saveDraft(engineer, first, { notes: `Note ${i + 1}` })).status).toBe(200);
     const p = await browser.page(PHONE);
     await p.signIn('reviewer');
     await p.page.goto(`${browser.server.url}/dossiers/${dossierId}`);
