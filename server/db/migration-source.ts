@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import * as m001 from './migrations/001-users-and-sessions';
 import * as m002 from './migrations/002-mail-and-audit';
 import * as m003 from './migrations/003-dossiers-and-revisions';
+import * as m006 from './migrations/006-revision-verdict-and-list-indexes';
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -13,6 +14,7 @@ const migrations: Record<string, Migration> = {
   '001-users-and-sessions': m001,
   '002-mail-and-audit': m002,
   '003-dossiers-and-revisions': m003,
+  '006-revision-verdict-and-list-indexes': m006,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -2,7 +2,7 @@ import type { Knex } from 'knex';
 import { computeDischarge } from '../../shared/engine';
 import type { DesignDraft, Requirement } from '../../shared/schema/discharge';
 import { appendAudit } from '../audit/chain';
-import { revisionContentHash } from '../revisions/store';
+import { resultColumns, revisionContentHash } from '../revisions/store';
 
 // The invented Fennel Grid Labs scenario: two products, dossiers in each state of the workflow.
 const heronRequirement: Requirement = {
@@ -74,8 +74,7 @@ async function seedDossier(
         status: 'draft',
         design: JSON.stringify(r.design),
         notes: r.notes,
-        results: JSON.stringify(results),
-        engine_version: results.engineVersion,
+        ...resultColumns(results),
         author_id: r.author,
         created_from: previous,
         content_hash: contentHash,

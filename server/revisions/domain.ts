@@ -7,7 +7,7 @@ import type { AppContext } from '../context';
 import { AppError, conflict, forbidden } from '../errors';
 import { queueMail } from '../mail/mailer';
 import { computeRevisionResults } from './results';
-import { loadDossier, loadEvidence, loadRevision, revisionContentHash, type Revision } from './store';
+import { loadDossier, loadEvidence, loadRevision, resultColumns, revisionContentHash, type Revision } from './store';
 
 const VERDICT_WORDS = { meets: 'meets every check', fails: 'fails at least one check', incomplete: 'incomplete inputs' } as const;
 
@@ -58,7 +58,7 @@ export async function createDraft(ctx: AppContext, user: SignedInUser, dossierId
     }
     const evidence = await loadEvidence(trx, newId);
     const results = computeRevisionResults(dossier.requirement, design, evidence);
-    await trx('revision').where({ id: newId }).update({ results: JSON.stringify(results), engine_version: results.engineVersion });
+    await trx('revision').where({ id: newId }).update(resultColumns(results));
     await appendAudit(trx, {
       actorId: user.id,
       action: 'revision.create',
@@ -85,8 +85,7 @@ export async function updateDraft(ctx: AppContext, user: SignedInUser, revisionI
     const changed = await trx('revision').where({ id: revisionId, status: 'draft' }).update({
       design: JSON.stringify(design),
       notes,
-      results: JSON.stringify(results),
-      engine_version: results.engineVersion,
+      ...resultColumns(results),
       updated_at: new Date().toISOString(),
     });
     if (!changed) throw conflict('This revision was submitted meanwhile and is frozen.');
@@ -107,7 +106,7 @@ export async function refreshDraftResults(trx: Parameters<typeof loadRevision>[0
   const rev = await loadRevision(trx, revisionId);
   const dossier = await loadDossier(trx, rev.dossierId);
   const results = computeRevisionResults(dossier.requirement, rev.design, rev.evidence);
-  await trx('revision').where({ id: revisionId, status: 'draft' }).update({ results: JSON.stringify(results), updated_at: new Date().toISOString() });
+  await trx('revision').where({ id: revisionId, status: 'draft' }).update({ ...resultColumns(results), updated_at: new Date().toISOString() });
 }
 
 /** submitRevision: assert draft and author, freeze the content with its hash, audit, notify every reviewer. */
@@ -122,8 +121,7 @@ export async function submitRevision(ctx: AppContext, user: SignedInUser, revisi
     const contentHash = revisionContentHash({ ...rev, results });
     const now = new Date().toISOString();
     const changed = await trx('revision').where({ id: revisionId, status: 'draft' }).update({
-      results: JSON.stringify(results),
-      engine_version: results.engineVersion,
+      ...resultColumns(results),
       content_hash: contentHash,
       status: 'in_review',
       submitted_at: now,
