@@ -1,6 +1,6 @@
 import { existsSync } from 'node:fs';
 import { extname, join } from 'node:path';
-import express, { type Express } from 'express';
+import express, { type Express, type RequestHandler } from 'express';
 import helmet from 'helmet';
 import { pinoHttp } from 'pino-http';
 import { authRoutes } from './auth/routes';
@@ -11,11 +11,51 @@ import { outboxRoutes } from './outbox/routes';
 import { userRoutes } from './users/routes';
 import { apiRoutes } from './routes';
 
+const BODYLESS = new Set(['GET', 'HEAD', 'OPTIONS']);
+
+/**
+ * The headers that matter for JSON and file answers, set in one step: the API never serves a page,
+ * so it needs no script or style policy, only "render nothing, embed nowhere, sniff nothing".
+ */
+function apiHeaders(production: boolean): RequestHandler {
+  const headers = new Map(Object.entries({
+    'Content-Security-Policy': "default-src 'none'; frame-ancestors 'none'",
+    'X-Content-Type-Options': 'nosniff',
+    'Cross-Origin-Resource-Policy': 'same-origin',
+    'Referrer-Policy': 'no-referrer',
+    ...(production ? { 'Strict-Transport-Security': 'max-age=31536000; includeSubDomains' } : {}),
+  }));
+  return (_req, res, next) => {
+    res.setHeaders(headers);
+    next();
+  };
+}
+
 /** Builds the Express app: the JSON API under /api and the web export with a deep-link fallback. */
 export function createApp(ctx: AppContext): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
+  app.use(pinoHttp({ logger: ctx.log, autoLogging: { ignore: (req) => !req.url?.startsWith('/api') } }));
+
+  const api = express.Router();
+  api.use(apiHeaders(ctx.config.production));
+  // Only requests that carry a body go through the JSON parser.
+  const json = express.json({ limit: '2mb' });
+  api.use((req, res, next) => (BODYLESS.has(req.method) ? next() : json(req, res, next)));
+  api.use(originCheck);
+  api.use(sessionMiddleware(ctx.lucia));
+  api.get('/health', (_req, res) => {
+    res.json({ ok: true });
+  });
+  api.use('/auth', authRoutes(ctx));
+  api.use('/users', userRoutes(ctx));
+  if (!ctx.config.production) api.use('/outbox', outboxRoutes(ctx));
+  api.use(apiRoutes(ctx));
+  api.use((req, _res, next) => next(new AppError(404, 'not_found', `No API route ${req.method} ${req.path}.`)));
+  app.use('/api', api);
+
+  const webDir = ctx.config.webDir;
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -35,23 +75,6 @@ export function createApp(ctx: AppContext): Express {
       hsts: ctx.config.production,
     }),
   );
-  app.use(pinoHttp({ logger: ctx.log, autoLogging: { ignore: (req) => !req.url?.startsWith('/api') } }));
-
-  const api = express.Router();
-  api.use(express.json({ limit: '2mb' }));
-  api.use(originCheck);
-  api.use(sessionMiddleware(ctx.lucia));
-  api.get('/health', (_req, res) => {
-    res.json({ ok: true });
-  });
-  api.use('/auth', authRoutes(ctx));
-  api.use('/users', userRoutes(ctx));
-  if (!ctx.config.production) api.use('/outbox', outboxRoutes(ctx));
-  api.use(apiRoutes(ctx));
-  api.use((req, _res, next) => next(new AppError(404, 'not_found', `No API route ${req.method} ${req.path}.`)));
-  app.use('/api', api);
-
-  const webDir = ctx.config.webDir;
   app.use(express.static(webDir, { index: false, maxAge: '1h' }));
   app.get('/{*splat}', (req, res, next) => {
     // Deep links get the app; a missing asset (with a file extension) stays a 404.

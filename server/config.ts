@@ -1,3 +1,4 @@
+import { availableParallelism } from 'node:os';
 import { resolve } from 'node:path';
 import { z } from 'zod';
 
@@ -23,6 +24,7 @@ const envSchema = z.object({
   SIGN_IN_LIMIT_PER_15_MIN: z.coerce.number().int().positive().default(20),
   UPLOAD_LIMIT_WAVEFORM_MB: z.coerce.number().positive().default(512),
   UPLOAD_LIMIT_OTHER_MB: z.coerce.number().positive().default(25),
+  WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
@@ -40,6 +42,8 @@ export interface Config {
   signInLimitPer15Min: number;
   uploadLimits: { waveformBytes: number; otherBytes: number };
   logLevel: z.infer<typeof envSchema>['LOG_LEVEL'];
+  /** HTTP worker processes (WEB_CONCURRENCY, default one per CPU). */
+  webConcurrency: number;
 }
 
 /** Reads and validates the environment once; refuses to start a production server without real mail and signing. */
@@ -68,6 +72,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       otherBytes: Math.round(e.UPLOAD_LIMIT_OTHER_MB * 1024 * 1024),
     },
     logLevel: e.LOG_LEVEL,
+    webConcurrency: e.WEB_CONCURRENCY ?? availableParallelism(),
     ...overrides,
   };
   if (config.production) {

@@ -1,15 +1,16 @@
 import { mkdirSync } from 'node:fs';
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
-import { pino } from 'pino';
+import { pino, type Logger } from 'pino';
 import { createApp } from './app';
 import { createLucia } from './auth/lucia';
+import { startBackground } from './background';
 import type { Config } from './config';
 import type { AppContext } from './context';
-import { openDatabase } from './db/knex';
+import { openDatabase, type Db } from './db/knex';
 import { seedDemo } from './db/seed';
-import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
-import { MailSender } from './mail/mailer';
+import type { FakeSmtp } from './mail/fake-smtp';
+import type { MailSender } from './mail/mailer';
 
 export interface RunningServer {
   ctx: AppContext;
@@ -20,24 +21,22 @@ export interface RunningServer {
   close(): Promise<void>;
 }
 
-/** Opens the data folder, migrates, seeds the demo outside production, starts mail and listens. */
-export async function startServer(config: Config): Promise<RunningServer> {
-  const log = pino({ level: config.logLevel });
+/** Opens the data folder: creates it, migrates, and seeds the demo outside production. */
+export async function openDataFolder(config: Config, log: Logger): Promise<Db> {
   mkdirSync(config.dataDir, { recursive: true });
   const db = await openDatabase(config.dataDir);
   if (config.seedDemo) await seedDemo(db, log);
+  return db;
+}
 
-  const fakeSmtp = config.production ? null : await startFakeSmtp(db, config.smtp.fakePort);
-  const smtpUrl = config.smtp.url ?? fakeSmtp!.url;
-  const mail = new MailSender(db, smtpUrl, config.smtp.from, log);
-  mail.start();
-
+/** Builds the app on an open database and listens; in a cluster every worker shares the port. */
+export async function serveHttp(config: Config, db: Db, log: Logger, kickMail: () => void): Promise<{ ctx: AppContext; server: Server; port: number }> {
   const ctx: AppContext = {
     config,
     db,
     lucia: createLucia(db, config.production),
     log,
-    kickMail: () => void mail.flush(),
+    kickMail,
     baseUrl: config.publicUrl ?? `http://localhost:${config.port}`,
   };
   const app = createApp(ctx);
@@ -46,18 +45,26 @@ export async function startServer(config: Config): Promise<RunningServer> {
   });
   const port = (server.address() as AddressInfo).port;
   if (!config.publicUrl) ctx.baseUrl = `http://localhost:${port}`;
-  log.info({ port, dataDir: config.dataDir, fakeSmtp: fakeSmtp?.url ?? null }, 'Voltfall is listening');
+  return { ctx, server, port };
+}
+
+/** One process doing everything (tests, `node server/index.ts` with WEB_CONCURRENCY=1): data, background work and HTTP. */
+export async function startServer(config: Config): Promise<RunningServer> {
+  const log = pino({ level: config.logLevel });
+  const db = await openDataFolder(config, log);
+  const background = await startBackground(db, config, log);
+  const { ctx, server, port } = await serveHttp(config, db, log, () => void background.mail.flush());
+  log.info({ port, dataDir: config.dataDir, fakeSmtp: background.fakeSmtp?.url ?? null }, 'Voltfall is listening');
   return {
     ctx,
     server,
     url: `http://127.0.0.1:${port}`,
-    fakeSmtp,
-    mail,
+    fakeSmtp: background.fakeSmtp,
+    mail: background.mail,
     async close() {
       await new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeAllConnections();
-      await mail.stop();
-      await fakeSmtp?.close();
+      await background.stop();
       await db.destroy();
     },
   };

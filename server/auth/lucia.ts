@@ -30,12 +30,14 @@ function knexAdapter(db: Db): Adapter {
     attributes: { email: row.email, name: row.name, role: row.role, disabled_at: row.disabled_at },
   });
   return {
+    // Every API request asks this: one query over both primary keys.
     async getSessionAndUser(sessionId) {
-      const session = await db('session').where({ id: sessionId }).first();
-      if (!session) return [null, null];
-      const user = await db<UserRow>('user').where({ id: session.user_id }).first();
-      if (!user) return [null, null];
-      return [toSession(session), toUser(user)];
+      const row = await db('session')
+        .join('user', 'user.id', 'session.user_id')
+        .where('session.id', sessionId)
+        .first('session.id as session_id', 'session.user_id', 'session.expires_at', 'user.email', 'user.name', 'user.role', 'user.disabled_at');
+      if (!row) return [null, null];
+      return [toSession({ id: row.session_id, user_id: row.user_id, expires_at: row.expires_at }), toUser({ id: row.user_id, ...row })];
     },
     async getUserSessions(userId) {
       return (await db('session').where({ user_id: userId })).map(toSession);

@@ -1,17 +1,45 @@
 import { mkdirSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import { join } from 'node:path';
 import knexFactory, { type Knex } from 'knex';
 import { migrationSource } from './migration-source';
 
 export type Db = Knex;
 
+/** How long a connection waits for another process's write lock before it gives up. */
+export const BUSY_TIMEOUT_MS = 5000;
+
 export function databaseFile(dataDir: string): string {
   return join(dataDir, 'voltfall.sqlite3');
 }
 
+// Knex's own classes, reached by path because it exports no way to change how a transaction begins.
+const require = createRequire(import.meta.url);
+const BetterSqlite3Client = require('knex/lib/dialects/better-sqlite3') as new (config: Knex.Config) => object;
+const SqliteTransaction = require('knex/lib/dialects/sqlite3/execution/sqlite-transaction') as new (...args: unknown[]) => {
+  query(conn: unknown, sql: string): Promise<unknown>;
+};
+
+/**
+ * Transactions take the write lock when they begin. Several workers share the file: a deferred
+ * transaction that reads and then writes fails at once with SQLITE_BUSY when another process wrote
+ * meanwhile, while an immediate one waits (up to the busy timeout) for the lock instead.
+ */
+class ImmediateTransaction extends SqliteTransaction {
+  begin(conn: unknown) {
+    return this.query(conn, 'BEGIN IMMEDIATE;');
+  }
+}
+
+class SqliteClient extends BetterSqlite3Client {
+  transaction(...args: unknown[]) {
+    return new ImmediateTransaction(this, ...args);
+  }
+}
+
 export function knexConfig(file: string): Knex.Config {
   return {
-    client: 'better-sqlite3',
+    client: SqliteClient as unknown as typeof Knex.Client,
     connection: { filename: file },
     useNullAsDefault: true,
     pool: {
@@ -21,7 +49,7 @@ export function knexConfig(file: string): Knex.Config {
       afterCreate(conn: { pragma: (s: string) => unknown }, done: (err: Error | null, conn: unknown) => void) {
         conn.pragma('journal_mode = WAL');
         conn.pragma('foreign_keys = ON');
-        conn.pragma('busy_timeout = 5000');
+        conn.pragma(`busy_timeout = ${BUSY_TIMEOUT_MS}`);
         conn.pragma('synchronous = NORMAL');
         done(null, conn);
       },
@@ -30,9 +58,10 @@ export function knexConfig(file: string): Knex.Config {
   };
 }
 
-export async function openDatabase(dataDir: string): Promise<Db> {
+/** Opens the database; `migrate: false` for cluster workers, whose primary migrated before forking them. */
+export async function openDatabase(dataDir: string, options: { migrate?: boolean } = {}): Promise<Db> {
   mkdirSync(dataDir, { recursive: true });
   const db = knexFactory(knexConfig(databaseFile(dataDir)));
-  await db.migrate.latest();
+  if (options.migrate ?? true) await db.migrate.latest();
   return db;
 }

@@ -14,7 +14,7 @@ import {
 } from '../schema/discharge';
 import { formatPercent } from '../units';
 import { balancingBound } from './balancing';
-import { dischargeCurve } from './curve';
+import { type CurveResolution, dischargeCurve } from './curve';
 import { pathVoltage, storedCharge, storedEnergy } from './decay';
 import { describeResistorCorner, describeScenario, describeThreshold, q } from './describe';
 import { networkCorners } from './network';
@@ -50,7 +50,8 @@ export function completeInput(input: DischargeRequest): CompleteInput {
   return { ok: false, missing: [...new Set(missing)] };
 }
 
-export function computeDischarge(input: DischargeRequest): DischargeResult {
+/** `curve: 'chart'` thins the curve to what the app's chart can show (the check route's default answer). */
+export function computeDischarge(input: DischargeRequest, options: { curve?: CurveResolution } = {}): DischargeResult {
   const complete = completeInput(input);
   if (!complete.ok) {
     return {
@@ -77,7 +78,7 @@ export function computeDischarge(input: DischargeRequest): DischargeResult {
     checks,
     nominal: networkState(nominal),
     worstCase: networkState(worst),
-    curve: dischargeCurve(nominal, worst, requirement.maxTime),
+    curve: dischargeCurve(nominal, worst, requirement.maxTime, options.curve),
     sensitivity: sensitivity(requirement, design),
     suggestion: suggestBleeder(requirement, design),
   };
