@@ -1,9 +1,11 @@
 // Shapes of the API's answers as the app reads them (the server's JSON contract, DESIGN.md §5).
-import type { EvidenceView, RevisionView } from '../shared/schema/api';
+import type { EvidenceView, RevisionSummary, RevisionView } from '../shared/schema/api';
 import type { DischargeResult, Requirement } from '../shared/schema/discharge';
 import type { RevisionStatus } from '../shared/schema/workflow';
 
 export type Verdict = DischargeResult['verdict'];
+export type { DossierListItem, Overview, OverviewList, ReviewQueueItem, RevisionSummary } from '../shared/schema/api';
+export type { Page } from '../shared/schema/lists';
 
 export interface Person {
   id: string;
@@ -19,36 +21,13 @@ export interface Product {
   dossierCount?: number;
 }
 
-export interface DossierListItem {
-  id: number;
-  productId: number;
-  title: string;
-  requirement: Requirement;
-  product: { id: number; name: string; modelNumber: string };
-  latest: { id: number; number: number; status: RevisionStatus; updatedAt: string; verdict: Verdict } | null;
-}
-
-export interface RevisionListItem {
-  id: number;
-  number: number;
-  status: RevisionStatus;
-  verdict: Verdict;
-  author: Person;
-  createdFrom: number | null;
-  createdAt: string;
-  updatedAt: string;
-  submittedAt: string | null;
-  decidedAt: string | null;
-  signedPdf: { sha256: string; size: number; createdAt: string } | null;
-}
-
 export interface Dossier {
   id: number;
   productId: number;
   title: string;
   requirement: Requirement;
   product: { id: number; name: string; modelNumber: string };
-  revisions: RevisionListItem[];
+  revisions: RevisionSummary[];
 }
 
 export type EvidenceRecord = EvidenceView;
@@ -72,33 +51,6 @@ export interface RevisionDiff {
   }>;
   notes: { changed: boolean; parts: Array<{ added: boolean; removed: boolean; value: string }>; patch: string };
   evidence: { added: Array<{ name: string; sha256: string; kind: string }>; removed: Array<{ name: string; sha256: string; kind: string }> };
-}
-
-export interface RevisionBrief {
-  id: number;
-  number: number;
-  status: RevisionStatus;
-  verdict: Verdict;
-  updatedAt: string;
-  dossier: { id: number; title: string; productName: string };
-  authorName: string;
-}
-
-export interface Overview {
-  myDrafts: RevisionBrief[];
-  returnedToMe: RevisionBrief[];
-  awaitingMyReview: RevisionBrief[];
-  recentlyApproved: RevisionBrief[];
-}
-
-export interface ReviewQueueItem {
-  id: number;
-  number: number;
-  verdict: Verdict;
-  submittedAt: string;
-  dossier: { id: number; title: string; productName: string };
-  author: Person;
-  mayDecide: boolean;
 }
 
 export interface AuditReport {

@@ -3,6 +3,7 @@ import type { DesignDraft } from '../shared/schema/discharge';
 import { apiGet, apiSend } from './api';
 import { keys } from './query-keys';
 import type { AuditReport, Revision, RevisionDiff, ReviewQueueItem } from './types';
+import { usePaged } from './use-paged';
 
 export function useRevision(id: number) {
   return useQuery({ queryKey: keys.revision(id), queryFn: () => apiGet<Revision>(`/revisions/${id}`), enabled: Number.isFinite(id) });
@@ -57,8 +58,9 @@ export function useRevisionDiff(id: number, enabled: boolean) {
   return useQuery({ queryKey: keys.diff(id), queryFn: () => apiGet<RevisionDiff>(`/revisions/${id}/diff`), enabled });
 }
 
+/** Revisions awaiting a decision, oldest first, a page at a time. */
 export function useReviewQueue() {
-  return useQuery({ queryKey: keys.reviews, queryFn: () => apiGet<ReviewQueueItem[]>('/reviews') });
+  return usePaged<ReviewQueueItem>(keys.reviews, '/reviews');
 }
 
 export function useAudit(dossierId: number, enabled: boolean) {
