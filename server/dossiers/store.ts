@@ -30,7 +30,15 @@ interface DossierRow {
 
 function whereDossiers(query: Knex.QueryBuilder, filter: DossierListQuery): Knex.QueryBuilder {
   if (filter.productId !== undefined) query.where('dossier.product_id', filter.productId);
-  if (filter.status !== undefined) query.where('latest.status', filter.status);
+  if (filter.status !== undefined) {
+    // Driven from the revision side: the status index finds the candidates, the unique (dossier, number)
+    // index keeps only each dossier's latest, so the cost follows the matches, not the dossier count.
+    query.whereIn(
+      'dossier.id',
+      (sub) => sub.from('revision as r').select('r.dossier_id').where('r.status', filter.status!)
+        .whereNotExists((later) => later.from('revision as l').whereRaw('l.dossier_id = r.dossier_id').andWhereRaw('l.number > r.number')),
+    );
+  }
   if (filter.q !== undefined) {
     const like = containing(filter.q);
     query.whereRaw(
@@ -56,7 +64,7 @@ export async function listDossiers(db: Db, filter: DossierListQuery): Promise<Pa
   const after = decodeCursor(filter.cursor);
   if (after) page.where('dossier.id', '<', after[1]);
   // The count joins only what its filters need, so the unfiltered total is a plain count.
-  const counted = filter.q !== undefined || filter.status !== undefined ? joined(db('dossier')) : db('dossier');
+  const counted = filter.q !== undefined ? db('dossier').join('product', 'product.id', 'dossier.product_id') : db('dossier');
   const [rows, count]: [DossierRow[], { n: number } | undefined] = await Promise.all([page, whereDossiers(counted, filter).count({ n: '*' }).first()]);
   return toPage(rows, filter.limit, Number(count?.n ?? 0), (r) => [r.id, r.id], dossierView);
 }
