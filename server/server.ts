@@ -3,7 +3,7 @@ import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
 import { pino, type Logger } from 'pino';
 import { createApp } from './app';
-import { createLucia } from './auth/lucia';
+import { createLucia, openSessionReader } from './auth/lucia';
 import { startBackground } from './background';
 import type { Config } from './config';
 import type { AppContext } from './context';
@@ -29,12 +29,21 @@ export async function openDataFolder(config: Config, log: Logger): Promise<Db> {
   return db;
 }
 
+export interface Http {
+  ctx: AppContext;
+  server: Server;
+  port: number;
+  /** Stops listening, lets requests under way finish, closes the session reader (the database stays open). */
+  close(): Promise<void>;
+}
+
 /** Builds the app on an open database and listens; in a cluster every worker shares the port. */
-export async function serveHttp(config: Config, db: Db, log: Logger, kickMail: () => void): Promise<{ ctx: AppContext; server: Server; port: number }> {
+export async function serveHttp(config: Config, db: Db, log: Logger, kickMail: () => void): Promise<Http> {
+  const sessions = openSessionReader(config.dataDir);
   const ctx: AppContext = {
     config,
     db,
-    lucia: createLucia(db, config.production),
+    lucia: createLucia(db, sessions, config.production),
     log,
     kickMail,
     baseUrl: config.publicUrl ?? `http://localhost:${config.port}`,
@@ -45,7 +54,23 @@ export async function serveHttp(config: Config, db: Db, log: Logger, kickMail: (
   });
   const port = (server.address() as AddressInfo).port;
   if (!config.publicUrl) ctx.baseUrl = `http://localhost:${port}`;
-  return { ctx, server, port };
+  return {
+    ctx,
+    server,
+    port,
+    async close() {
+      // Requests under way may finish; idle keep-alive connections end now, the rest after a grace period.
+      await new Promise<void>((resolve) => {
+        const grace = setTimeout(() => server.closeAllConnections(), 3_000);
+        server.close(() => {
+          clearTimeout(grace);
+          resolve();
+        });
+        server.closeIdleConnections();
+      });
+      sessions.close();
+    },
+  };
 }
 
 /** One process doing everything (tests, `node server/index.ts` with WEB_CONCURRENCY=1): data, background work and HTTP. */
@@ -53,7 +78,8 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const log = pino({ level: config.logLevel });
   const db = await openDataFolder(config, log);
   const background = await startBackground(db, config, log);
-  const { ctx, server, port } = await serveHttp(config, db, log, () => void background.mail.flush());
+  const http = await serveHttp(config, db, log, () => void background.mail.flush());
+  const { ctx, server, port } = http;
   log.info({ port, dataDir: config.dataDir, fakeSmtp: background.fakeSmtp?.url ?? null }, 'Voltfall is listening');
   return {
     ctx,
@@ -62,8 +88,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
     fakeSmtp: background.fakeSmtp,
     mail: background.mail,
     async close() {
-      await new Promise<void>((resolve) => server.close(() => resolve()));
-      server.closeAllConnections();
+      await http.close();
       await background.stop();
       await db.destroy();
     },

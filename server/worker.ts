@@ -9,9 +9,8 @@ import { serveHttp } from './server';
 const config = loadConfig();
 const log = pino({ level: config.logLevel });
 const db = await openDatabase(config.dataDir, { migrate: false });
-const { server } = await serveHttp(config, db, log, () => process.send?.(KICK_MAIL));
+const http = await serveHttp(config, db, log, () => process.send?.(KICK_MAIL));
 
 process.once('SIGTERM', () => {
-  server.close(() => void db.destroy().then(() => process.exit(0)));
-  server.closeIdleConnections();
+  void http.close().then(() => db.destroy()).then(() => process.exit(0));
 });
