@@ -28,13 +28,13 @@ export function dischargeCurve(nominal: Scenario, worst: Scenario, timeLimit: nu
     worst.timeToSafe,
     timeLimit,
   ].filter((t): t is number => t !== undefined && t > 0 && t < end);
-  const grid = Array.from({ length: GRID_POINTS }, (_, i) => (end * i) / (GRID_POINTS - 1));
-  const times = [...new Set([...grid, ...marks])].sort((a, b) => a - b);
-  const curve = times.map((t) => ({
-    t,
-    v: pathVoltage(nominal.main, nominal.initialVoltage, t),
-    vWorst: pathVoltage(worst.main, worst.initialVoltage, t),
-  }));
+  const times: number[] = [];
+  for (let i = 0; i < GRID_POINTS; i += 1) times.push((end * i) / (GRID_POINTS - 1));
+  for (const mark of marks) if (!times.includes(mark)) times.push(mark);
+  times.sort((a, b) => a - b);
+  // Plain loops: every live check draws this curve.
+  const curve: CurvePoint[] = [];
+  for (const t of times) curve.push({ t, v: pathVoltage(nominal.main, nominal.initialVoltage, t), vWorst: pathVoltage(worst.main, worst.initialVoltage, t) });
   if (resolution === 'full') return curve;
   const anchors = new Set(marks);
   return simplify(curve, anchors).map((p) => (anchors.has(p.t) ? p : { t: round(p.t), v: round(p.v), vWorst: round(p.vWorst) }));
