@@ -17,17 +17,42 @@ export function databaseFile(dataDir: string): string {
 const require = createRequire(import.meta.url);
 const BetterSqlite3Client = require('knex/lib/dialects/better-sqlite3') as new (config: Knex.Config) => object;
 const SqliteTransaction = require('knex/lib/dialects/sqlite3/execution/sqlite-transaction') as new (...args: unknown[]) => {
+  trxClient: { query(conn: unknown, sql: string): Promise<unknown> };
   query(conn: unknown, sql: string): Promise<unknown>;
 };
+
+interface RawConnection {
+  pragma(source: string): unknown;
+}
+
+const isBusy = (err: unknown) => (err as { code?: string } | null)?.code === 'SQLITE_BUSY';
 
 /**
  * Transactions take the write lock when they begin. Several workers share the file: a deferred
  * transaction that reads and then writes fails at once with SQLITE_BUSY when another process wrote
- * meanwhile, while an immediate one waits (up to the busy timeout) for the lock instead.
+ * meanwhile, while an immediate one waits for the lock instead. It waits asynchronously: SQLite's own
+ * busy wait would freeze the worker's event loop (better-sqlite3 is synchronous), so BEGIN is tried
+ * without it and retried after a short random pause until the busy timeout has passed.
  */
 class ImmediateTransaction extends SqliteTransaction {
-  begin(conn: unknown) {
-    return this.query(conn, 'BEGIN IMMEDIATE;');
+  async begin(conn: RawConnection) {
+    const deadline = Date.now() + BUSY_TIMEOUT_MS;
+    conn.pragma('busy_timeout = 0');
+    try {
+      // Attempts go straight to the connection: a failed query through Knex's transaction ends the transaction.
+      while (Date.now() < deadline) {
+        try {
+          return await this.trxClient.query(conn, 'BEGIN IMMEDIATE;');
+        } catch (err) {
+          if (!isBusy(err)) break;
+          await new Promise((resolve) => setTimeout(resolve, 1 + Math.random() * 9));
+        }
+      }
+      // The last try through Knex, which rejects the transaction if it fails too.
+      return await this.query(conn, 'BEGIN IMMEDIATE;');
+    } finally {
+      conn.pragma(`busy_timeout = ${BUSY_TIMEOUT_MS}`);
+    }
   }
 }
 
