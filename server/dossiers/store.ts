@@ -52,9 +52,8 @@ function whereDossiers(query: Knex.QueryBuilder, filter: DossierListQuery): Knex
 
 /** The dossier list, newest first, filtered and paged in SQL; each row carries its latest revision's status and verdict. */
 export async function listDossiers(db: Db, filter: DossierListQuery): Promise<Page<DossierListItem>> {
-  const joined = (query: Knex.QueryBuilder) =>
-    query.join('product', 'product.id', 'dossier.product_id').leftJoin('revision as latest', 'latest.id', db.raw(LATEST_REVISION));
-  const page = whereDossiers(joined(db('dossier')), filter)
+  const listed = db('dossier').join('product', 'product.id', 'dossier.product_id').leftJoin('revision as latest', 'latest.id', db.raw(LATEST_REVISION));
+  const page = whereDossiers(listed, filter)
     .select(
       'dossier.id', 'dossier.product_id', 'dossier.title', 'dossier.requirement', 'product.name as product_name', 'product.model_number as product_model',
       'latest.id as latest_id', 'latest.number as latest_number', 'latest.status as latest_status', 'latest.updated_at as latest_updated_at', 'latest.verdict as latest_verdict',
