@@ -3,14 +3,14 @@ import { StyleSheet, Text, View } from 'react-native';
 import { colors, space, type } from '../constants/theme';
 import { auditSentence } from '../shared/audit-sentences';
 import { formatWhen } from '../shared/dates';
-import type { AuditReport, RevisionListItem } from '../hooks/types';
+import type { AuditReport, RevisionSummary } from '../hooks/types';
 import { Button } from './ui/button';
 import { Card } from './ui/card';
 
 const PAGE = 20;
 
 /** A dossier's audit trail in full, newest first, a page at a time, each event as a sentence. */
-export function AuditTrail({ report, revisions }: { report: AuditReport; revisions: readonly RevisionListItem[] }) {
+export function AuditTrail({ report, revisions }: { report: AuditReport; revisions: readonly RevisionSummary[] }) {
   const [shown, setShown] = useState(PAGE);
   const numbers = new Map(revisions.map((r) => [r.id, r.number]));
   const events = [...report.events].reverse();

@@ -2,13 +2,13 @@ import { Link } from 'expo-router';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
 import { colors, space, type } from '../constants/theme';
 import { formatWhen } from '../shared/dates';
-import type { RevisionBrief } from '../hooks/types';
+import type { RevisionSummary } from '../hooks/types';
 import { returnLine } from './return-note';
 import { StatusBadge, VerdictBadge } from './status';
 import { Message } from './ui/message';
 
 /** Revisions as tappable rows: dossier, revision number, status and verdict in words. */
-export function RevisionList({ items, empty, testID }: { items: RevisionBrief[]; empty: string; testID: string }) {
+export function RevisionList({ items, empty, testID }: { items: RevisionSummary[]; empty: string; testID: string }) {
   if (items.length === 0) return <Message text={empty} testID={`${testID}-empty`} />;
   return (
     <View testID={testID}>
@@ -19,7 +19,7 @@ export function RevisionList({ items, empty, testID }: { items: RevisionBrief[];
               {r.dossier.title}
             </Text>
             <Text style={type.small}>
-              {r.dossier.productName} · revision {r.number} · {r.authorName} · {formatWhen(r.updatedAt)}
+              {r.dossier.productName} · revision {r.number} · {r.author.name} · {formatWhen(r.updatedAt)}
             </Text>
             <View style={styles.badges}>
               <StatusBadge status={r.status} />

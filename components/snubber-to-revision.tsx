@@ -19,7 +19,7 @@ interface Props {
 export function SnubberToRevision({ sizing, input }: Props) {
   const router = useRouter();
   const overview = useOverview();
-  const drafts = overview.data?.myDrafts ?? [];
+  const drafts = overview.data?.myDrafts.items ?? [];
   return (
     <Card title="Add to a draft revision" testID="sizing-to-revision">
       <Text style={type.small}>

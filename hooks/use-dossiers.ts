@@ -2,7 +2,9 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { DossierCreate, ProductCreate } from '../shared/schema/workflow';
 import { apiGet, apiSend } from './api';
 import { keys } from './query-keys';
-import type { Dossier, DossierListItem, Overview, Product, Revision } from './types';
+import type { DossierListFilter } from '../shared/schema/lists';
+import type { Dossier, DossierListItem, Overview, OverviewList, Page, Product, Revision, RevisionSummary } from './types';
+import { usePaged } from './use-paged';
 
 export function useOverview() {
   return useQuery({ queryKey: keys.overview, queryFn: () => apiGet<Overview>('/overview') });
@@ -20,8 +22,14 @@ export function useCreateProduct() {
   });
 }
 
-export function useDossiers() {
-  return useQuery({ queryKey: keys.dossiers, queryFn: () => apiGet<DossierListItem[]>('/dossiers') });
+/** The dossier list, newest first, a page at a time; `filter` (text, product, status) is applied by the server. */
+export function useDossiers(filter: DossierListFilter = {}) {
+  return usePaged<DossierListItem>(keys.dossierList(filter), '/dossiers', filter);
+}
+
+/** More of one Overview list, starting from the first page the Overview answered. */
+export function useOverviewList(list: OverviewList, first: Page<RevisionSummary>) {
+  return usePaged<RevisionSummary>(keys.overviewList(list), `/overview/${list}`, {}, first);
 }
 
 export function useDossier(id: number) {

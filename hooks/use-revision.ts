@@ -4,6 +4,7 @@ import type { RevisionView } from '../shared/schema/api';
 import { ApiError, apiGet, apiSend } from './api';
 import { keys } from './query-keys';
 import type { AuditReport, Revision, RevisionDiff, ReviewQueueItem } from './types';
+import { usePaged } from './use-paged';
 
 export function useRevision(id: number) {
   return useQuery({ queryKey: keys.revision(id), queryFn: () => apiGet<Revision>(`/revisions/${id}`), enabled: Number.isFinite(id) });
@@ -85,8 +86,9 @@ export function useRevisionDiff(id: number, against: number | undefined) {
   });
 }
 
+/** Revisions awaiting a decision, oldest first, a page at a time. */
 export function useReviewQueue() {
-  return useQuery({ queryKey: keys.reviews, queryFn: () => apiGet<ReviewQueueItem[]>('/reviews') });
+  return usePaged<ReviewQueueItem>(keys.reviews, '/reviews');
 }
 
 export function useAudit(dossierId: number, enabled: boolean) {

@@ -54,7 +54,6 @@ export class BackgroundLoop {
   }
 }
 
-
 /**
  * Work that runs after the answer has gone out (so the answer's timing does not depend on it). A
  * failure is logged, never thrown into a request; closing the server waits for what is still running.

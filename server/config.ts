@@ -1,3 +1,4 @@
+import { availableParallelism } from 'node:os';
 import { resolve } from 'node:path';
 import { z } from 'zod';
 import { StartupError } from './errors';
@@ -34,6 +35,7 @@ const envSchema = z.object({
   UPLOAD_LIMIT_OTHER_MB: z.coerce.number().positive().default(25),
   SQLITE_BUSY_TIMEOUT_MS: z.coerce.number().int().min(0).max(600_000).default(5_000),
   EVIDENCE_ORPHAN_GRACE_HOURS: z.coerce.number().min(0).default(24),
+  WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
@@ -70,6 +72,8 @@ export interface Config {
   /** How long a stored file no evidence row references any more is kept before the sweep removes it. */
   orphanGraceMs: number;
   logLevel: z.infer<typeof envSchema>['LOG_LEVEL'];
+  /** HTTP worker processes (WEB_CONCURRENCY, default one per CPU). */
+  webConcurrency: number;
 }
 
 /**
@@ -126,6 +130,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     busyTimeoutMs: e.SQLITE_BUSY_TIMEOUT_MS,
     orphanGraceMs: e.EVIDENCE_ORPHAN_GRACE_HOURS * 3600_000,
     logLevel: e.LOG_LEVEL,
+    webConcurrency: e.WEB_CONCURRENCY ?? availableParallelism(),
     ...overrides,
   };
   if (config.production) {

@@ -1,22 +1,25 @@
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
-import type { DestinationStream } from 'pino';
+import type { DestinationStream, Logger } from 'pino';
 import { createApp } from './app';
 import { Sessions } from './auth/sessions';
 import { Throttle } from './auth/throttle';
-import { Background, BackgroundLoop } from './background';
+import { Background } from './background';
 import { systemClock, type Clock } from './clock';
 import type { Config } from './config';
 import type { AppContext } from './context';
 import { assertDataFolderUsable } from './data-folder';
-import { openDatabase } from './db/knex';
+import { openDatabase, type Db } from './db/knex';
 import { seedDemo } from './db/seed';
-import { Housekeeping } from './housekeeping/sweep';
-import { createLogger } from './logging';
-import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
-import { MailSender } from './mail/mailer';
 import { DossierPdfService } from './dossier-pdf/domain';
-import { startSigning } from './signing/service';
+import type { Housekeeping } from './housekeeping/sweep';
+import { createLogger } from './logging';
+import type { FakeSmtp } from './mail/fake-smtp';
+import type { MailSender } from './mail/mailer';
+import { startPrimaryWork } from './primary-work';
+import { startSigning, type Signing } from './signing/service';
+
+export { sweepExpired } from './primary-work';
 
 export interface RunningServer {
   ctx: AppContext;
@@ -35,26 +38,32 @@ export interface StartOptions {
   logDestination?: DestinationStream;
 }
 
-/**
- * Checks the data folder, migrates, seeds the demo outside production, clears what interrupted uploads
- * and approvals left behind, starts mail, the signing services and the periodic sweeps, and listens.
- */
-export async function startServer(config: Config, options: StartOptions = {}): Promise<RunningServer> {
-  const log = createLogger(config, options.logDestination);
-  const clock = options.clock ?? systemClock;
+/** Opens the data folder: checks it is usable, migrates, and seeds the demo outside production. */
+export async function openDataFolder(config: Config, log: Logger): Promise<Db> {
   assertDataFolderUsable(config.dataDir, config.createDataDir);
-  const db = await openDatabase(config.dataDir, config.busyTimeoutMs);
+  const db = await openDatabase(config.dataDir, { busyTimeoutMs: config.busyTimeoutMs });
   if (config.seedDemo) await seedDemo(db, log);
-  const housekeeping = new Housekeeping(db, config.dataDir, config.orphanGraceMs, log);
-  await housekeeping.startUp();
+  return db;
+}
 
-  const fakeSmtp = config.production ? null : await startFakeSmtp(db, config.smtp.fakePort);
-  const smtpUrl = config.smtp.url ?? fakeSmtp!.url;
-  const mail = new MailSender(db, smtpUrl, config.smtp.from, log);
-  mail.start();
-  // Outside production this also starts the local time-stamping authority on loopback.
-  const signing = await startSigning(config);
+export interface Http {
+  ctx: AppContext;
+  server: Server;
+  port: number;
+  /** Stops listening, lets requests under way finish, stops the PDF worker (the database stays open). */
+  close(): Promise<void>;
+}
 
+export interface HttpParts {
+  db: Db;
+  log: Logger;
+  clock: Clock;
+  signing: Signing;
+  kickMail: () => void;
+}
+
+/** Builds the app on an open database and listens; in a cluster every worker shares the port. */
+export async function serveHttp(config: Config, { db, log, clock, signing, kickMail }: HttpParts): Promise<Http> {
   const ctx: AppContext = {
     config,
     db,
@@ -63,12 +72,10 @@ export async function startServer(config: Config, options: StartOptions = {}): P
     throttle: new Throttle(db, clock, config),
     log,
     background: new Background(log),
-    kickMail: () => void mail.flush(),
+    kickMail,
     signing,
     baseUrl: config.publicUrl ?? `http://localhost:${config.port}`,
   };
-  const sweep = new BackgroundLoop('sweep of expired sessions and throttles', () => sweepExpired(ctx), log, config.sessions.sweepMs);
-  sweep.start();
   const pdf = new DossierPdfService(ctx);
   // Tests start many servers and most never render a PDF; a production server should not make its first
   // approval wait for the worker to load.
@@ -79,34 +86,53 @@ export async function startServer(config: Config, options: StartOptions = {}): P
   });
   const port = (server.address() as AddressInfo).port;
   if (!config.publicUrl) ctx.baseUrl = `http://localhost:${port}`;
-  log.info({ port, dataDir: config.dataDir, fakeSmtp: fakeSmtp?.url ?? null, localTsa: signing.localTsaUrl }, 'Voltfall is listening');
   return {
     ctx,
     server,
-    url: `http://127.0.0.1:${port}`,
-    fakeSmtp,
-    mail,
-    housekeeping,
+    port,
     async close() {
-      await sweep.stop();
-      // Open connections (an upload in progress) are cut, which removes their temporary files.
-      const closed = new Promise<void>((resolve) => server.close(() => resolve()));
-      server.closeAllConnections();
-      await closed;
-      await housekeeping.stop();
+      // Requests under way may finish; open connections (an upload in progress) are cut after a grace
+      // period, which removes their temporary files.
+      await new Promise<void>((resolve) => {
+        const grace = setTimeout(() => server.closeAllConnections(), 3_000);
+        server.close(() => {
+          clearTimeout(grace);
+          resolve();
+        });
+        server.closeIdleConnections();
+      });
       await ctx.background.settled();
-      await mail.stop();
-      await fakeSmtp?.close();
       await pdf.close();
-      await signing.close();
-      await db.destroy();
     },
   };
 }
 
-/** The periodic sweep: expired sessions and long-quiet throttle buckets are deleted. */
-export async function sweepExpired(ctx: AppContext): Promise<void> {
-  const sessions = await ctx.sessions.sweep();
-  const buckets = await ctx.throttle.sweep();
-  if (sessions || buckets) ctx.log.info({ sessions, buckets }, 'swept expired sessions and throttle buckets');
+/**
+ * One process doing everything (tests, and `server/index.ts` with WEB_CONCURRENCY=1): checks and opens
+ * the data folder, starts the work that runs once per folder (mail, sweeps), the signing services
+ * (outside production a local time-stamping authority on loopback) and the HTTP server.
+ */
+export async function startServer(config: Config, options: StartOptions = {}): Promise<RunningServer> {
+  const log = createLogger(config, options.logDestination);
+  const clock = options.clock ?? systemClock;
+  const db = await openDataFolder(config, log);
+  const primary = await startPrimaryWork(db, config, log, clock);
+  const signing = await startSigning(config);
+  const http = await serveHttp(config, { db, log, clock, signing, kickMail: () => void primary.mail.flush() });
+  const { ctx, server, port } = http;
+  log.info({ port, dataDir: config.dataDir, fakeSmtp: primary.fakeSmtp?.url ?? null, localTsa: signing.localTsaUrl }, 'Voltfall is listening');
+  return {
+    ctx,
+    server,
+    url: `http://127.0.0.1:${port}`,
+    fakeSmtp: primary.fakeSmtp,
+    mail: primary.mail,
+    housekeeping: primary.housekeeping,
+    async close() {
+      await http.close();
+      await primary.stop();
+      await signing.close();
+      await db.destroy();
+    },
+  };
 }

@@ -1,6 +1,5 @@
 import { StyleSheet, useWindowDimensions, View } from 'react-native';
-import { RevisionList } from '../../components/revision-list';
-import { Card } from '../../components/ui/card';
+import { OverviewCard } from '../../components/overview-card';
 import { Message } from '../../components/ui/message';
 import { Screen } from '../../components/ui/screen';
 import { space, WIDE_BREAKPOINT } from '../../constants/theme';
@@ -12,29 +11,20 @@ export default function OverviewScreen() {
   const overview = useOverview();
   const wide = useWindowDimensions().width >= WIDE_BREAKPOINT;
   const authors = me.role === 'engineer' || me.role === 'admin';
+  const lists = overview.data;
   return (
     <Screen title="Overview" subtitle={`Signed in as ${me.name} (${me.role})`} testID="overview-screen" showCaution>
       {overview.isError ? <Message tone="error" text={overview.error.message} /> : null}
-      {overview.data ? (
+      {lists ? (
         <View style={[styles.columns, wide && styles.wide]}>
           {me.role === 'reviewer' ? (
-            <Card title={`Awaiting my review (${overview.data.awaitingMyReview.length})`} style={wide ? styles.col : undefined}>
-              <RevisionList items={overview.data.awaitingMyReview} empty="Nothing awaits your review." testID="awaiting-review" />
-            </Card>
+            <OverviewCard list="awaitingMyReview" first={lists.awaitingMyReview} title="Awaiting my review" empty="Nothing awaits your review." testID="awaiting-review" style={wide ? styles.col : undefined} />
           ) : null}
           {authors ? (
-            <Card title={`Returned to me (${overview.data.returnedToMe.length})`} style={wide ? styles.col : undefined}>
-              <RevisionList items={overview.data.returnedToMe} empty="No revision of yours was returned." testID="returned-to-me" />
-            </Card>
+            <OverviewCard list="returnedToMe" first={lists.returnedToMe} title="Returned to me" empty="No revision of yours was returned." testID="returned-to-me" style={wide ? styles.col : undefined} />
           ) : null}
-          {authors ? (
-            <Card title={`My drafts (${overview.data.myDrafts.length})`} style={wide ? styles.col : undefined}>
-              <RevisionList items={overview.data.myDrafts} empty="You have no open drafts." testID="my-drafts" />
-            </Card>
-          ) : null}
-          <Card title="Recently approved" style={wide ? styles.col : undefined}>
-            <RevisionList items={overview.data.recentlyApproved} empty="No revision has been approved yet." testID="recently-approved" />
-          </Card>
+          {authors ? <OverviewCard list="myDrafts" first={lists.myDrafts} title="My drafts" empty="You have no open drafts." testID="my-drafts" style={wide ? styles.col : undefined} /> : null}
+          <OverviewCard list="recentlyApproved" first={lists.recentlyApproved} title="Recently approved" empty="No revision has been approved yet." testID="recently-approved" style={wide ? styles.col : undefined} />
         </View>
       ) : null}
     </Screen>

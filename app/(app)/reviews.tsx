@@ -1,5 +1,6 @@
 import { Link } from 'expo-router';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
+import { LoadMore } from '../../components/load-more';
 import { formatWhen } from '../../shared/dates';
 import { VerdictBadge } from '../../components/status';
 import { Card } from '../../components/ui/card';
@@ -12,9 +13,9 @@ export default function ReviewsScreen() {
   const queue = useReviewQueue();
   return (
     <Screen title="Reviews" subtitle="Revisions awaiting a decision, oldest first." testID="reviews-screen">
-      {queue.isError ? <Message tone="error" text={queue.error.message} /> : null}
-      {queue.data?.length === 0 ? <Message text="Nothing awaits review." testID="reviews-empty" /> : null}
-      {queue.data?.map((r) => (
+      {queue.error ? <Message tone="error" text={queue.error.message} /> : null}
+      {queue.total === 0 ? <Message text="Nothing awaits review." testID="reviews-empty" /> : null}
+      {queue.items.map((r) => (
         <Link key={r.id} href={`/revisions/${r.id}?tab=review`} asChild>
           <Pressable testID={`review-item-${r.id}`}>
             <Card title={r.dossier.title}>
@@ -29,6 +30,7 @@ export default function ReviewsScreen() {
           </Pressable>
         </Link>
       ))}
+      <LoadMore list={queue} testID="reviews-more" />
     </Screen>
   );
 }

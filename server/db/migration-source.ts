@@ -4,6 +4,7 @@ import * as m002 from './migrations/002-mail-and-audit';
 import * as m003 from './migrations/003-dossiers-and-revisions';
 import * as m004 from './migrations/004-revision-version-and-file-release';
 import * as m005 from './migrations/005-sessions-throttle-signatures';
+import * as m006 from './migrations/006-revision-verdict-and-list-indexes';
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -17,6 +18,7 @@ const migrations: Record<string, Migration> = {
   '003-dossiers-and-revisions': m003,
   '004-revision-version-and-file-release': m004,
   '005-sessions-throttle-signatures': m005,
+  '006-revision-verdict-and-list-indexes': m006,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -3,7 +3,7 @@ import { computeDischarge } from '../../shared/engine';
 import type { DesignDraft, Requirement } from '../../shared/schema/discharge';
 import { appendAudit } from '../audit/chain';
 import { decisionMeaning } from '../review/domain';
-import { revisionContentHash } from '../revisions/store';
+import { resultColumns, revisionContentHash } from '../revisions/store';
 
 // The invented Fennel Grid Labs scenario: two products, dossiers in each state of the workflow.
 const heronRequirement: Requirement = {
@@ -80,8 +80,7 @@ async function seedDossier(
         status: 'draft',
         design: JSON.stringify(r.design),
         notes: r.notes,
-        results: JSON.stringify(results),
-        engine_version: results.engineVersion,
+        ...resultColumns(results),
         author_id: r.author,
         created_from: previous,
         content_hash: contentHash,

@@ -1,4 +1,5 @@
 import { Router } from 'express';
+import { pageQuerySchema } from '../../shared/schema/lists';
 import { decisionSchema, reviewCommentSchema } from '../../shared/schema/workflow';
 import { confirmSignature } from '../auth/domain';
 import { allow, currentUser } from '../auth/middleware';
@@ -7,6 +8,7 @@ import type { AppContext } from '../context';
 import { validationError } from '../errors';
 import { parseId } from '../params';
 import { addReviewComment, decideRevision, type ApprovalSigner } from './domain';
+import { reviewQueue } from './store';
 
 export function reviewRoutes(ctx: AppContext, signer?: ApprovalSigner): Router {
   const router = Router();
@@ -26,27 +28,11 @@ export function reviewRoutes(ctx: AppContext, signer?: ApprovalSigner): Router {
     res.status(201).json(await addReviewComment(ctx, currentUser(req), parseId(req.params.id), parsed.data.body));
   });
 
-  // The reviewer's queue: everything awaiting review, with the ones this reviewer may not decide marked.
+  // The reviewer's queue: everything awaiting review, oldest first, with the ones this reviewer may not decide marked.
   router.get('/reviews', allow('reviewer', 'admin'), async (req, res) => {
-    const user = currentUser(req);
-    const rows = await ctx.db('revision')
-      .join('dossier', 'dossier.id', 'revision.dossier_id')
-      .join('product', 'product.id', 'dossier.product_id')
-      .join('user', 'user.id', 'revision.author_id')
-      .where('revision.status', 'in_review')
-      .orderBy('revision.submitted_at', 'asc')
-      .select('revision.id', 'revision.number', 'revision.results', 'revision.submitted_at', 'revision.author_id', 'dossier.id as dossier_id', 'dossier.title', 'product.name as product_name', 'user.name as author_name');
-    res.json(
-      rows.map((r) => ({
-        id: r.id,
-        number: r.number,
-        verdict: JSON.parse(r.results).verdict,
-        submittedAt: r.submitted_at,
-        dossier: { id: r.dossier_id, title: r.title, productName: r.product_name },
-        author: { id: r.author_id, name: r.author_name },
-        mayDecide: user.role === 'reviewer' && r.author_id !== user.id,
-      })),
-    );
+    const parsed = pageQuerySchema.safeParse(req.query);
+    if (!parsed.success) throw validationError(parsed.error, 'The list query is not valid.');
+    res.json(await reviewQueue(ctx.db, currentUser(req), parsed.data));
   });
 
   return router;

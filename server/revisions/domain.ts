@@ -7,7 +7,7 @@ import type { AppContext } from '../context';
 import { AppError, conflict, forbidden } from '../errors';
 import { queueMail } from '../mail/mailer';
 import { computeRevisionResults } from './results';
-import { loadDossier, loadEvidence, loadRevision, revisionContentHash, type Revision } from './store';
+import { loadDossier, loadEvidence, loadRevision, resultColumns, revisionContentHash, type Revision } from './store';
 
 const VERDICT_WORDS = { meets: 'meets every check', fails: 'fails at least one check', incomplete: 'incomplete inputs' } as const;
 
@@ -73,7 +73,7 @@ export async function createDraft(ctx: AppContext, user: SignedInUser, dossierId
     }
     const evidence = await loadEvidence(trx, newId);
     const results = computeRevisionResults(dossier.requirement, design, evidence);
-    await trx('revision').where({ id: newId }).update({ results: JSON.stringify(results), engine_version: results.engineVersion });
+    await trx('revision').where({ id: newId }).update(resultColumns(results));
     await appendAudit(trx, {
       actorId: user.id,
       action: 'revision.create',
@@ -102,8 +102,7 @@ export async function updateDraft(ctx: AppContext, user: SignedInUser, revisionI
     const changed = await trx('revision').where({ id: revisionId, status: 'draft', version: patch.version }).update({
       design: JSON.stringify(design),
       notes,
-      results: JSON.stringify(results),
-      engine_version: results.engineVersion,
+      ...resultColumns(results),
       version: patch.version + 1,
       updated_at: new Date().toISOString(),
     });
@@ -125,7 +124,7 @@ export async function refreshDraftResults(trx: Parameters<typeof loadRevision>[0
   const rev = await loadRevision(trx, revisionId);
   const dossier = await loadDossier(trx, rev.dossierId);
   const results = computeRevisionResults(dossier.requirement, rev.design, rev.evidence);
-  const changed = await trx('revision').where({ id: revisionId, status: 'draft', version: rev.version }).update({ results: JSON.stringify(results), version: rev.version + 1, updated_at: new Date().toISOString() });
+  const changed = await trx('revision').where({ id: revisionId, status: 'draft', version: rev.version }).update({ ...resultColumns(results), version: rev.version + 1, updated_at: new Date().toISOString() });
   if (!changed) throw conflict('This revision changed meanwhile; reload it.');
   return rev.version + 1;
 }
@@ -146,8 +145,7 @@ export async function submitRevision(ctx: AppContext, user: SignedInUser, revisi
     const contentHash = revisionContentHash({ ...rev, results });
     const now = new Date().toISOString();
     const changed = await trx('revision').where({ id: revisionId, status: 'draft', version: rev.version }).update({
-      results: JSON.stringify(results),
-      engine_version: results.engineVersion,
+      ...resultColumns(results),
       content_hash: contentHash,
       version: rev.version + 1,
       status: 'in_review',

@@ -1,8 +1,11 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { DesignDraft, DischargeResult, Requirement } from '../../shared/schema/discharge';
-import type { EvidenceView, Person, ReturnNoteView, RevisionView } from '../../shared/schema/api';
+import type { EvidenceView, Person, ReturnNoteView, RevisionSummary, RevisionView } from '../../shared/schema/api';
+import type { Page, PageQuery } from '../../shared/schema/lists';
+import type { RevisionStatus } from '../../shared/schema/workflow';
 import type { WaveformAnalysis } from '../../shared/schema/waveform';
+import { decodeCursor, toPage } from '../db/paging';
 import { notFound } from '../errors';
 
 export type { Person } from '../../shared/schema/api';
@@ -15,6 +18,11 @@ export interface EvidenceRecord extends EvidenceView {
 export type Revision = RevisionView<EvidenceRecord>;
 
 type Db = Knex | Knex.Transaction;
+
+/** The columns that store a revision's results: the verdict has its own column so lists never parse the JSON. */
+export function resultColumns(results: DischargeResult): { results: string; verdict: DischargeResult['verdict']; engine_version: string } {
+  return { results: JSON.stringify(results), verdict: results.verdict, engine_version: results.engineVersion };
+}
 
 async function people(db: Db, ids: string[]): Promise<Map<string, Person>> {
   const rows = ids.length ? await db('user').whereIn('id', [...new Set(ids)]).select('id', 'name', 'email') : [];
@@ -120,6 +128,108 @@ export async function loadDossier(db: Db, id: number): Promise<DossierSummary> {
     createdBy: row.created_by,
     createdAt: row.created_at,
     product: { id: row.product_id, name: row.product_name, modelNumber: row.product_model },
+  };
+}
+
+export interface RevisionFilter {
+  dossierId?: number;
+  authorId?: string;
+  notAuthorId?: string;
+  /** Any of these statuses (a viewer's lists are the approved ones). */
+  status?: readonly RevisionStatus[];
+  /** Only revisions that no later revision of the same dossier has replaced. */
+  latestOnly?: boolean;
+}
+
+/** Each order has an index behind it (migration 006); the revision id breaks ties in the same direction. */
+const ORDERS = {
+  'number-desc': { column: 'number', direction: 'desc' },
+  'updated-desc': { column: 'updated_at', direction: 'desc' },
+  'submitted-asc': { column: 'submitted_at', direction: 'asc' },
+  'decided-desc': { column: 'decided_at', direction: 'desc' },
+} as const;
+export type RevisionOrder = keyof typeof ORDERS;
+
+function whereRevisions(query: Knex.QueryBuilder, filter: RevisionFilter): Knex.QueryBuilder {
+  if (filter.dossierId !== undefined) query.where('revision.dossier_id', filter.dossierId);
+  if (filter.authorId !== undefined) query.where('revision.author_id', filter.authorId);
+  if (filter.notAuthorId !== undefined) query.whereNot('revision.author_id', filter.notAuthorId);
+  if (filter.status) query.whereIn('revision.status', filter.status);
+  if (filter.latestOnly) {
+    query.whereNotExists((later) => later.from('revision as later').whereRaw('later.dossier_id = revision.dossier_id').andWhereRaw('later.number > revision.number'));
+  }
+  return query;
+}
+
+/**
+ * The one revision-list query: the overview, the review queue and a dossier's page all read revisions
+ * through it. Reads the verdict column, never the results JSON; `page: null` answers every match.
+ */
+export async function revisionSummaries(db: Db, filter: RevisionFilter, order: RevisionOrder, page: PageQuery | null): Promise<Page<RevisionSummary>> {
+  const { column, direction } = ORDERS[order];
+  const query = whereRevisions(
+    db('revision')
+      .join('dossier', 'dossier.id', 'revision.dossier_id')
+      .join('product', 'product.id', 'dossier.product_id')
+      .join('user', 'user.id', 'revision.author_id')
+      .leftJoin('signed_dossier', 'signed_dossier.revision_id', 'revision.id')
+      .select(
+        'revision.id', 'revision.dossier_id', 'revision.number', 'revision.status', 'revision.verdict', 'revision.author_id', 'revision.created_from',
+        'revision.created_at', 'revision.updated_at', 'revision.submitted_at', 'revision.decided_at', 'user.name as author_name',
+        'dossier.title', 'dossier.product_id', 'product.name as product_name',
+        'signed_dossier.sha256 as pdf_sha256', 'signed_dossier.size as pdf_size', 'signed_dossier.created_at as pdf_created_at',
+      ),
+    filter,
+  ).orderBy([{ column: `revision.${column}`, order: direction }, { column: 'revision.id', order: direction }]);
+  if (!page) {
+    const rows: SummaryRow[] = await query;
+    return { items: rows.map(summaryView), nextCursor: null, total: rows.length };
+  }
+  const after = decodeCursor(page.cursor);
+  if (after) query.whereRaw(`(revision.${column}, revision.id) ${direction === 'asc' ? '>' : '<'} (?, ?)`, after);
+  const [rows, count]: [SummaryRow[], { n: number } | undefined] = await Promise.all([
+    query.limit(page.limit + 1),
+    whereRevisions(db('revision'), filter).count({ n: '*' }).first(),
+  ]);
+  return toPage(rows, page.limit, Number(count?.n ?? 0), (r) => [r[column]!, r.id], summaryView);
+}
+
+interface SummaryRow {
+  id: number;
+  dossier_id: number;
+  number: number;
+  status: RevisionStatus;
+  verdict: RevisionSummary['verdict'];
+  author_id: string;
+  created_from: number | null;
+  created_at: string;
+  updated_at: string;
+  submitted_at: string | null;
+  decided_at: string | null;
+  author_name: string;
+  title: string;
+  product_id: number;
+  product_name: string;
+  pdf_sha256: string | null;
+  pdf_size: number | null;
+  pdf_created_at: string | null;
+}
+
+function summaryView(r: SummaryRow): RevisionSummary {
+  return {
+    id: r.id,
+    dossierId: r.dossier_id,
+    number: r.number,
+    status: r.status,
+    verdict: r.verdict,
+    author: { id: r.author_id, name: r.author_name },
+    createdFrom: r.created_from,
+    createdAt: r.created_at,
+    updatedAt: r.updated_at,
+    submittedAt: r.submitted_at,
+    decidedAt: r.decided_at,
+    dossier: { id: r.dossier_id, title: r.title, productId: r.product_id, productName: r.product_name },
+    signedPdf: r.pdf_sha256 ? { sha256: r.pdf_sha256, size: r.pdf_size!, createdAt: r.pdf_created_at! } : null,
   };
 }
 

@@ -15,7 +15,7 @@ import {
 import { formatPercent } from '../units';
 import { balancingBound } from './balancing';
 import { informationOnly, upperLimitCheck } from './check';
-import { dischargeCurve } from './curve';
+import { type CurveResolution, dischargeCurve } from './curve';
 import { pathVoltage, storedCharge, storedEnergy } from './decay';
 import { describeResistorCorner, describeScenario, describeThreshold, q } from './describe';
 import { networkCorners } from './network';
@@ -52,7 +52,8 @@ export function completeInput(input: DischargeRequest): CompleteInput {
   return { ok: false, missing: [...new Set(missing)] };
 }
 
-export function computeDischarge(input: DischargeRequest): DischargeResult {
+/** `curve: 'chart'` thins the curve to what the app's chart can show (the check route's default answer). */
+export function computeDischarge(input: DischargeRequest, options: { curve?: CurveResolution } = {}): DischargeResult {
   const complete = completeInput(input);
   if (!complete.ok) {
     return {
@@ -79,7 +80,7 @@ export function computeDischarge(input: DischargeRequest): DischargeResult {
     checks,
     nominal: networkState(nominal),
     worstCase: networkState(worst),
-    curve: dischargeCurve(nominal, worst, requirement.maxTime),
+    curve: dischargeCurve(nominal, worst, requirement.maxTime, options.curve),
     sensitivity: sensitivity(requirement, design),
     suggestion: suggestBleeder(requirement, design),
   };

@@ -19,7 +19,7 @@ function tauInstant(s: Scenario): number | undefined {
  * each time to safe and of the limit included so the chart and the tests can read them without
  * interpolation.
  */
-export function dischargeCurve(nominal: Scenario, worst: Scenario, timeLimit: number): CurvePoint[] {
+export function dischargeCurve(nominal: Scenario, worst: Scenario, timeLimit: number, resolution: CurveResolution = 'full'): CurvePoint[] {
   const end = 1.25 * Math.max(timeLimit, nominal.timeToSafe, worst.timeToSafe);
   const marks = [
     tauInstant(nominal),
@@ -28,11 +28,65 @@ export function dischargeCurve(nominal: Scenario, worst: Scenario, timeLimit: nu
     worst.timeToSafe,
     timeLimit,
   ].filter((t): t is number => t !== undefined && t > 0 && t < end);
-  const grid = Array.from({ length: GRID_POINTS }, (_, i) => (end * i) / (GRID_POINTS - 1));
-  const times = [...new Set([...grid, ...marks])].sort((a, b) => a - b);
-  return times.map((t) => ({
-    t,
-    v: pathVoltage(nominal.main, nominal.initialVoltage, t),
-    vWorst: pathVoltage(worst.main, worst.initialVoltage, t),
-  }));
+  const times: number[] = [];
+  for (let i = 0; i < GRID_POINTS; i += 1) times.push((end * i) / (GRID_POINTS - 1));
+  for (const mark of marks) if (!times.includes(mark)) times.push(mark);
+  times.sort((a, b) => a - b);
+  // Plain loops: every live check draws this curve.
+  const curve: CurvePoint[] = [];
+  for (const t of times) curve.push({ t, v: pathVoltage(nominal.main, nominal.initialVoltage, t), vWorst: pathVoltage(worst.main, worst.initialVoltage, t) });
+  if (resolution === 'full') return curve;
+  const anchors = new Set(marks);
+  return simplify(curve, anchors).map((p) => (anchors.has(p.t) ? p : { t: round(p.t), v: round(p.v), vWorst: round(p.vWorst) }));
+}
+
+/**
+ * "full": every point, as stored with a revision. "chart": what a chart can show — points a straight
+ * line through their neighbours would draw within CHART_TOLERANCE are dropped, the marked instants
+ * stay exact, and the rest are rounded to 5 significant digits (far below a pixel).
+ */
+export type CurveResolution = 'full' | 'chart';
+
+/** A thousandth of the curve's top voltage: a quarter of a pixel on the app's 260 px chart. */
+export const CHART_TOLERANCE = 1e-3;
+
+const round = (x: number) => Number(x.toPrecision(5));
+
+/**
+ * Ramer–Douglas–Peucker on the vertical distance of both series, split at the anchors so the
+ * marked instants (τ, each time to safe, the limit) always remain points of the curve.
+ */
+function simplify(curve: CurvePoint[], anchors: ReadonlySet<number>): CurvePoint[] {
+  const top = Math.max(...curve.map((p) => Math.max(p.v, p.vWorst)));
+  const tolerance = CHART_TOLERANCE * top;
+  const keep = new Uint8Array(curve.length);
+  keep[0] = 1;
+  keep[curve.length - 1] = 1;
+  curve.forEach((p, i) => {
+    if (anchors.has(p.t)) keep[i] = 1;
+  });
+  const deviation = (a: CurvePoint, b: CurvePoint, p: CurvePoint) => {
+    const f = (p.t - a.t) / (b.t - a.t);
+    return Math.max(Math.abs(a.v + f * (b.v - a.v) - p.v), Math.abs(a.vWorst + f * (b.vWorst - a.vWorst) - p.vWorst));
+  };
+  const split = (from: number, to: number) => {
+    let worst = -1;
+    let at = -1;
+    for (let i = from + 1; i < to; i += 1) {
+      const d = deviation(curve[from], curve[to], curve[i]);
+      if (d > worst) [worst, at] = [d, i];
+    }
+    if (at < 0 || worst <= tolerance) return;
+    keep[at] = 1;
+    split(from, at);
+    split(at, to);
+  };
+  let start = 0;
+  for (let i = 1; i < curve.length; i += 1) {
+    if (keep[i]) {
+      split(start, i);
+      start = i;
+    }
+  }
+  return curve.filter((_, i) => keep[i]);
 }

@@ -18,20 +18,24 @@ export function eSeriesMantissas(series: ESeries): readonly number[] {
 }
 
 /** The power of ten that scales the series' table to the decade of x. */
-function split(x: number, series: ESeries): { exponent: number; digits: number } {
+function split(x: number, series: ESeries): { exponent: number } {
   const digits = series === 'E24' ? 2 : 3;
-  return { exponent: Math.floor(Math.log10(x)) - digits + 1, digits };
+  return { exponent: Math.floor(Math.log10(x)) - digits + 1 };
 }
+
+// m·10^e as the double nearest the decimal value: exact for e ≥ 0, and a division by an exact power of
+// ten is correctly rounded, which is what the decimal string would parse to (and much cheaper).
+const scaled = (m: number, e: number) => (e >= 0 ? m * 10 ** e : m / 10 ** -e);
 
 /** The series' values around x in ascending order: the last of the decade below, x's decade, the first above. */
 function neighbourhood(x: number, series: ESeries): number[] {
   const table = eSeriesMantissas(series);
-  const { exponent, digits } = split(x, series);
-  const scaled = (m: number, e: number) => Number((m * 10 ** e).toPrecision(digits));
-  // A cheap estimate of the position narrows the exact (rounded) comparison to a few values.
+  const { exponent } = split(x, series);
+  // A cheap estimate of the position narrows the exact (rounded) comparison to a few values; a plain
+  // loop, as the inverse design calls this dozens of times per check.
   const raw = x / 10 ** exponent;
-  const at = table.findIndex((m) => m > raw * (1 + 1e-9));
-  const i = at === -1 ? table.length : at;
+  let i = 0;
+  while (i < table.length && !(table[i] > raw * (1 + 1e-9))) i += 1;
   const window: number[] = [];
   for (let k = i - 2; k <= i + 1; k += 1) {
     const e = exponent + Math.floor(k / table.length);
@@ -47,7 +51,10 @@ function neighbourhood(x: number, series: ESeries): number[] {
  */
 export function eValueAtOrBelow(x: number, series: ESeries): number | undefined {
   if (!(x > 0) || !Number.isFinite(x)) return undefined;
-  return neighbourhood(x, series).filter((v) => v <= x).pop();
+  const window = neighbourhood(x, series);
+  let below: number | undefined;
+  for (const v of window) if (v <= x) below = v;
+  return below;
 }
 
 /** Smallest series value strictly above x. */

@@ -34,7 +34,7 @@ export {
 } from './decay';
 export { balancingBound, worstCapacitorVoltage } from './balancing';
 export { scenario, worstCaseTime, type Corner, type Scenario } from './scenario';
-export { dischargeCurve, CURVE_MAX_POINTS } from './curve';
+export { dischargeCurve, CHART_TOLERANCE, CURVE_MAX_POINTS, type CurveResolution } from './curve';
 export { sensitivity } from './sensitivity';
 export {
   suggestBleeder,

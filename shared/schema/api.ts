@@ -1,6 +1,7 @@
 // Shapes the API answers with for a revision and its evidence, shared by the server that builds them
 // and the app that reads them (the JSON names are part of the contract, DESIGN.md §5).
-import type { DesignDraft, DischargeResult } from './discharge';
+import type { DesignDraft, DischargeResult, Requirement } from './discharge';
+import type { Page } from './lists';
 import type { WaveformAnalysis } from './waveform';
 import type { RevisionStatus } from './workflow';
 
@@ -122,3 +123,40 @@ export interface RevisionDiff {
   /** Files by SHA-256: a file in both revisions is carried, not added or removed. */
   evidence: { added: EvidenceBrief[]; removed: EvidenceBrief[] };
 }
+
+/** A revision as the lists show it (overview, review queue, a dossier's revisions): no inputs or results. */
+export interface RevisionSummary {
+  id: number;
+  dossierId: number;
+  number: number;
+  status: RevisionStatus;
+  verdict: DischargeResult['verdict'];
+  author: { id: string; name: string };
+  createdFrom: number | null;
+  createdAt: string;
+  updatedAt: string;
+  submittedAt: string | null;
+  decidedAt: string | null;
+  dossier: { id: number; title: string; productId: number; productName: string };
+  signedPdf: { sha256: string; size: number; createdAt: string } | null;
+  /** On "my drafts" and "returned to me": the reviewer's reason for the return being answered, or returned. */
+  returnNote?: ReturnNoteView | null;
+}
+
+export interface ReviewQueueItem extends RevisionSummary {
+  /** False for the author and for admins: they see the queue but may not decide. */
+  mayDecide: boolean;
+}
+
+export interface DossierListItem {
+  id: number;
+  productId: number;
+  title: string;
+  requirement: Requirement;
+  product: { id: number; name: string; modelNumber: string };
+  latest: { id: number; number: number; status: RevisionStatus; updatedAt: string; verdict: DischargeResult['verdict'] } | null;
+}
+
+export const OVERVIEW_LISTS = ['myDrafts', 'returnedToMe', 'awaitingMyReview', 'recentlyApproved'] as const;
+export type OverviewList = (typeof OVERVIEW_LISTS)[number];
+export type Overview = Record<OverviewList, Page<RevisionSummary>>;

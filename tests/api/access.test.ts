@@ -73,6 +73,8 @@ const TABLE: Row[] = [
   { method: 'get', path: () => '/api/reviews', expect: { anonymous: 401, admin: 200, reviewer: 200, signedIn: 403 } },
   { method: 'get', path: (i) => `/api/audit?dossierId=${i.dossierId}`, expect: { anonymous: 401, admin: 200, reviewer: 200, signedIn: 403 } },
   { method: 'get', path: () => '/api/overview', expect: { anonymous: 401, signedIn: 200 } },
+  { method: 'get', path: () => '/api/overview/myDrafts?limit=5', expect: { anonymous: 401, signedIn: 200 } },
+  { method: 'get', path: () => '/api/dossiers?limit=201', expect: { anonymous: 401, signedIn: 400 } },
   // The draft is engineer2's: the engineer is refused as not the author, the admin reaches validation.
   { method: 'post', path: (i) => `/api/revisions/${i.draftId}/evidence`, expect: { anonymous: 401, admin: 400, engineer: 403, signedIn: 403 } },
   { method: 'get', path: (i) => `/api/evidence/${i.evidenceId}/file`, expect: { anonymous: 401, viewer: 404, signedIn: 200 } },

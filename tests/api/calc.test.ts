@@ -1,6 +1,7 @@
 // The stateless calculation routes: nonsense gets field-level 400s, never a 500.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type supertest from 'supertest';
+import { CHART_TOLERANCE, computeDischarge } from '../../shared/engine';
 import { demoDesign, demoRequirement } from '../support/fixtures';
 import { startTestServer, type TestServer } from '../support/test-server';
 
@@ -54,6 +55,39 @@ describe('POST /api/calc/discharge', () => {
     expect(time.value).toBe(0);
     expect(time.pass).toBe(true);
     expect(time.detail).toMatch(/already|at or below/i);
+  });
+
+  it('answers the curve at the chart resolution: within a thousandth of the top voltage of every full-curve point, the marked instants exact', async () => {
+    const body = { requirement: demoRequirement, design: demoDesign };
+    const chart = (await engineer.post('/api/calc/discharge').send(body)).body;
+    const full = await engineer.post('/api/calc/discharge?curve=full').send(body);
+    expect(full.status).toBe(200);
+    type P = { t: number; v: number; vWorst: number };
+    const fullCurve: P[] = full.body.curve;
+    const chartCurve: P[] = chart.curve;
+    expect(fullCurve).toEqual(computeDischarge(body).curve);
+    expect(chartCurve.length).toBeLessThan(fullCurve.length / 2);
+    expect(JSON.stringify(chart).length).toBeLessThan(JSON.stringify(full.body).length / 2);
+    // Linear interpolation of the thinned curve, as the chart draws it.
+    const at = (t: number, key: 'v' | 'vWorst') => {
+      const i = chartCurve.findIndex((p) => p.t >= t);
+      if (chartCurve[i].t === t) return chartCurve[i][key];
+      const [a, b] = [chartCurve[i - 1], chartCurve[i]];
+      return a[key] + ((t - a.t) / (b.t - a.t)) * (b[key] - a[key]);
+    };
+    const top = Math.max(...fullCurve.map((p) => Math.max(p.v, p.vWorst)));
+    // The thinning tolerance plus the rounding of kept points to 5 significant digits.
+    const allowed = (CHART_TOLERANCE + 1e-4) * top;
+    for (const p of fullCurve) {
+      expect(Math.abs(at(p.t, 'v') - p.v)).toBeLessThanOrEqual(allowed);
+      expect(Math.abs(at(p.t, 'vWorst') - p.vWorst)).toBeLessThanOrEqual(allowed);
+    }
+    const times = chartCurve.map((p) => p.t);
+    expect(times).toEqual(expect.arrayContaining([chart.nominal.timeToSafe, chart.worstCase.timeToSafe, chart.worstCase.tau, demoRequirement.maxTime]));
+    expect(chart.checks).toEqual(full.body.checks);
+    const bad = await engineer.post('/api/calc/discharge?curve=every').send(body);
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields[0].path).toBe('curve');
   });
 
   it('reports an unfinished design as incomplete with the missing fields, not as an error', async () => {

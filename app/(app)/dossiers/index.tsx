@@ -1,11 +1,10 @@
 import { Link, useRouter } from 'expo-router';
-import { useMemo, useState } from 'react';
 import { Pressable, StyleSheet, Text, useWindowDimensions, View } from 'react-native';
+import { LoadMore } from '../../../components/load-more';
 import { StatusBadge, VerdictBadge } from '../../../components/status';
 import { formatWhen } from '../../../shared/dates';
 import { Button } from '../../../components/ui/button';
 import { Card } from '../../../components/ui/card';
-import { Choice } from '../../../components/ui/choice';
 import { Message } from '../../../components/ui/message';
 import { Screen } from '../../../components/ui/screen';
 import { colors, fonts, space, type, WIDE_BREAKPOINT } from '../../../constants/theme';
@@ -14,47 +13,26 @@ import type { DossierListItem } from '../../../hooks/types';
 import { useDossiers } from '../../../hooks/use-dossiers';
 import { useMe } from '../../../hooks/use-me';
 
-type SortKey = 'updated' | 'status' | 'title';
-const STATUS_ORDER = { returned: 0, draft: 1, in_review: 2, approved: 3 } as const;
-
-function sortDossiers(list: DossierListItem[], key: SortKey): DossierListItem[] {
-  const copy = [...list];
-  if (key === 'title') return copy.sort((a, b) => a.title.localeCompare(b.title));
-  if (key === 'status') return copy.sort((a, b) => (a.latest ? STATUS_ORDER[a.latest.status] : 9) - (b.latest ? STATUS_ORDER[b.latest.status] : 9));
-  return copy.sort((a, b) => (b.latest?.updatedAt ?? '').localeCompare(a.latest?.updatedAt ?? ''));
-}
-
 const limitText = (d: DossierListItem) => `${formatQuantity(d.requirement.safeVoltage, 'V')} within ${formatQuantity(d.requirement.maxTime, 's')}`;
 
 export default function DossiersScreen() {
   const me = useMe().data!;
   const router = useRouter();
+  // Newest first, a page at a time; the server filters and orders, so the list is never sorted here.
   const dossiers = useDossiers();
-  const [sort, setSort] = useState<SortKey>('updated');
+  const list = dossiers.items;
   const wide = useWindowDimensions().width >= WIDE_BREAKPOINT;
-  const sorted = useMemo(() => sortDossiers(dossiers.data ?? [], sort), [dossiers.data, sort]);
   const canCreate = me.role === 'engineer' || me.role === 'admin';
 
   return (
     <Screen
       title="Dossiers"
-      subtitle="One dossier per requirement to prove, with its revisions."
+      subtitle="One dossier per requirement to prove, with its revisions; newest first."
       testID="dossiers-screen"
       actions={canCreate ? <Button label="New dossier" testID="new-dossier" onPress={() => router.push('/dossiers/new')} /> : null}
     >
-      <Choice
-        label="Sort by"
-        testID="dossier-sort"
-        value={sort}
-        onChange={setSort}
-        options={[
-          { value: 'updated', label: 'Last change' },
-          { value: 'status', label: 'Status' },
-          { value: 'title', label: 'Title' },
-        ]}
-      />
-      {dossiers.isError ? <Message tone="error" text={dossiers.error.message} /> : null}
-      {dossiers.data && sorted.length === 0 ? <Message text="No dossiers yet." /> : null}
+      {dossiers.error ? <Message tone="error" text={dossiers.error.message} /> : null}
+      {dossiers.total === 0 ? <Message text="No dossiers yet." /> : null}
       {wide ? (
         <Card>
           <View style={[styles.tr, styles.th]}>
@@ -65,7 +43,7 @@ export default function DossiersScreen() {
             <Text style={[styles.cell, styles.c2, styles.head]}>Status</Text>
             <Text style={[styles.cell, styles.c2, styles.head]}>Last change</Text>
           </View>
-          {sorted.map((d) => (
+          {list.map((d) => (
             <Link key={d.id} href={`/dossiers/${d.id}`} asChild>
               <Pressable style={styles.tr} testID={`dossier-row-${d.id}`}>
                 <Text style={[styles.cell, styles.c3, styles.title]}>{d.title}</Text>
@@ -82,7 +60,7 @@ export default function DossiersScreen() {
           ))}
         </Card>
       ) : (
-        sorted.map((d) => (
+        list.map((d) => (
           <Link key={d.id} href={`/dossiers/${d.id}`} asChild>
             <Pressable testID={`dossier-card-${d.id}`}>
               <Card title={d.title}>
@@ -102,6 +80,7 @@ export default function DossiersScreen() {
           </Link>
         ))
       )}
+      <LoadMore list={dossiers} testID="dossiers-more" />
     </Screen>
   );
 }
