@@ -43,7 +43,8 @@ describe('a cluster of two workers', () => {
     const products = (await engineer.get('/api/products')).body;
     const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Cluster story', requirement: demoRequirement })).body;
     const id = dossier.revisions[0].id;
-    expect((await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign })).status).toBe(200);
+    // A new dossier's first draft is at version 1.
+    expect((await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign, version: 1 })).status).toBe(200);
     expect((await engineer.post(`/api/revisions/${id}/submit`)).status).toBe(200);
 
     const mailFor = () => db('mail_outbox').where('subject', 'like', '%Cluster story%').select('to');
@@ -63,7 +64,7 @@ describe('a cluster of two workers', () => {
       Array.from({ length: 8 }, (_, i) => engineer.post('/api/dossiers').send({ productId: products[0].id, title: `Concurrent ${i}`, requirement: demoRequirement })),
     );
     expect(dossiers.map((r) => r.status)).toEqual(Array(8).fill(201));
-    const saves = await Promise.all(dossiers.map((d) => engineer.patch(`/api/revisions/${d.body.revisions[0].id}`).send({ design: demoDesign, notes: `note ${d.body.id}` })));
+    const saves = await Promise.all(dossiers.map((d) => engineer.patch(`/api/revisions/${d.body.revisions[0].id}`).send({ design: demoDesign, notes: `note ${d.body.id}`, version: 1 })));
     expect(saves.map((r) => r.status)).toEqual(Array(8).fill(200));
     const notes = await db('revision').whereIn('id', dossiers.map((d) => d.body.revisions[0].id)).pluck('notes');
     expect(notes.sort()).toEqual(dossiers.map((d) => `note ${d.body.id}`).sort());

@@ -3,7 +3,7 @@
 import type supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement, failingDesign } from '../support/fixtures';
-import { startTestServer, type TestServer } from '../support/test-server';
+import { saveDraft, startTestServer, type TestServer } from '../support/test-server';
 
 interface Page<T> {
   items: T[];
@@ -121,7 +121,7 @@ describe('GET /api/dossiers pages', () => {
 
   it("filters by the status of each dossier's latest revision", async () => {
     const { id, draftId } = await createDossier('Submitted for the status filter');
-    await engineer.patch(`/api/revisions/${draftId}`).send({ design: demoDesign });
+    await saveDraft(engineer, draftId, { design: demoDesign });
     await engineer.post(`/api/revisions/${draftId}/submit`);
     const inReview = await walk<DossierItem>(engineer, '/api/dossiers?status=in_review', 2);
     expect(inReview.items.map((d) => d.id)).toContain(id);
@@ -154,7 +154,7 @@ describe('the review queue and the Overview lists page the same way', () => {
     const submitted: number[] = [];
     for (let i = 0; i < 3; i += 1) {
       const { draftId } = await createDossier(`Queue ${i}`);
-      await engineer.patch(`/api/revisions/${draftId}`).send({ design: i === 1 ? failingDesign : demoDesign });
+      await saveDraft(engineer, draftId, { design: i === 1 ? failingDesign : demoDesign });
       await engineer.post(`/api/revisions/${draftId}/submit`);
       submitted.push(draftId);
     }

@@ -56,7 +56,7 @@ describe('a viewer and unfinished work', () => {
 
 describe('what a viewer lists', () => {
   it('the dossier list holds only dossiers with an approved revision, and "latest" is the latest approved one', async () => {
-    const list = (await viewer.get('/api/dossiers')).body as Array<{ id: number; latest: { id: number; status: string } }>;
+    const list = (await viewer.get('/api/dossiers')).body.items as Array<{ id: number; latest: { id: number; status: string } }>;
     const ids = list.map((d) => d.id);
     expect(ids).toContain(seeded.approved.dossierId);
     expect(ids).not.toContain(seeded.in_review.dossierId);
@@ -64,7 +64,7 @@ describe('what a viewer lists', () => {
     expect(list.every((d) => d.latest.status === 'approved')).toBe(true);
     // The seeded approved dossier also has a newer draft; the team's list shows that one as latest.
     expect(list.find((d) => d.id === seeded.approved.dossierId)!.latest.id).toBe(seeded.approved.id);
-    const team = (await engineer.get('/api/dossiers')).body as Array<{ id: number; latest: { id: number } }>;
+    const team = (await engineer.get('/api/dossiers')).body.items as Array<{ id: number; latest: { id: number } }>;
     expect(team.find((d) => d.id === seeded.approved.dossierId)!.latest.id).toBe(seeded.draft.id);
   });
 
@@ -92,15 +92,17 @@ describe('what a viewer lists', () => {
     const author = await server.signIn('engineer2');
     const products = (await author.get('/api/products')).body;
     await author.post('/api/dossiers').send({ productId: products[0].id, title: 'Drafted before a role change', requirement: demoRequirement });
-    expect((await author.get('/api/overview')).body.myDrafts.length).toBeGreaterThan(0);
+    expect((await author.get('/api/overview')).body.myDrafts.items.length).toBeGreaterThan(0);
 
     await admin.patch(`/api/users/${former.id}`).send({ role: 'viewer' });
-    const overview = (await author.get('/api/overview')).body as Record<string, Array<{ status: string }>>;
-    expect(overview.myDrafts).toEqual([]);
-    expect(overview.returnedToMe).toEqual([]);
-    expect(overview.awaitingMyReview).toEqual([]);
-    expect(overview.recentlyApproved.length).toBeGreaterThan(0);
-    expect(overview.recentlyApproved.every((r) => r.status === 'approved')).toBe(true);
+    const overview = (await author.get('/api/overview')).body as Record<string, { items: Array<{ status: string }>; total: number }>;
+    expect(overview.myDrafts.items).toEqual([]);
+    expect(overview.returnedToMe.items).toEqual([]);
+    expect(overview.awaitingMyReview.items).toEqual([]);
+    expect(overview.recentlyApproved.items.length).toBeGreaterThan(0);
+    expect(overview.recentlyApproved.items.every((r) => r.status === 'approved')).toBe(true);
+    // Paging a list the viewer may not see answers it empty too.
+    expect((await author.get('/api/overview/myDrafts')).body).toEqual({ items: [], nextCursor: null, total: 0 });
     await admin.patch(`/api/users/${former.id}`).send({ role: 'engineer' });
   });
 

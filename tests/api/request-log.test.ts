@@ -45,7 +45,7 @@ describe('the request log', () => {
   it('each request line has exactly method, route (the pattern), status, time and user id', async () => {
     const engineer = await server.signIn('engineer');
     const me = (await engineer.get('/api/auth/me')).body as { id: string };
-    const dossier = (await engineer.get('/api/dossiers')).body[0] as { id: number };
+    const dossier = (await engineer.get('/api/dossiers')).body.items[0] as { id: number };
     await engineer.get(`/api/dossiers/${dossier.id}?q=secret-looking-query`);
     const line = requestLines().find((l) => l.route === '/api/dossiers/:id' && l.userId === me.id);
     expect(line).toBeDefined();

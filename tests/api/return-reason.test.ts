@@ -36,7 +36,7 @@ describe('the reason of a return', () => {
   it('when the author opens the Overview, then the returned revision says why it was returned', async () => {
     const { engineer, first } = await returnedRevision('Reason on the overview');
     const overview = (await engineer.get('/api/overview').expect(200)).body;
-    const item = overview.returnedToMe.find((r: { id: number }) => r.id === first);
+    const item = overview.returnedToMe.items.find((r: { id: number }) => r.id === first);
     expect(item.returnNote).toMatchObject({ revisionId: first, number: 1, comment: REASON, reviewer: { name: 'Marta Kowalczyk' } });
   });
 
@@ -51,8 +51,8 @@ describe('the reason of a return', () => {
     expect((await engineer.get(`/api/revisions/${first}`)).body.answersReturn).toBeNull();
 
     const overview = (await engineer.get('/api/overview')).body;
-    expect(overview.returnedToMe.map((r: { id: number }) => r.id)).not.toContain(first);
-    const mine = overview.myDrafts.find((r: { id: number }) => r.id === second.id);
+    expect(overview.returnedToMe.items.map((r: { id: number }) => r.id)).not.toContain(first);
+    const mine = overview.myDrafts.items.find((r: { id: number }) => r.id === second.id);
     expect(mine.returnNote).toMatchObject({ number: 1, comment: REASON });
   });
 

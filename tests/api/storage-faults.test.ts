@@ -53,7 +53,7 @@ async function uploadText(server: ServerProcess, cookie: string, revisionId: num
 /** The engineer's seeded draft (Heron revision 2) and its version. */
 async function seededDraft(server: ServerProcess, cookie: string) {
   const overview = await call(server, cookie, 'GET', '/overview');
-  const id = overview.body.myDrafts[0].id as number;
+  const id = overview.body.myDrafts.items[0].id as number;
   return { id, version: (await call(server, cookie, 'GET', `/revisions/${id}`)).body.version as number };
 }
 

@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { computeDischarge } from '../../shared/engine';
 import { databaseFile, knexConfig } from '../../server/db/knex';
 import { demoDesign, demoRequirement, failingDesign } from '../support/fixtures';
-import { startTestServer, type TestServer } from '../support/test-server';
+import { saveDraft, startTestServer, type TestServer } from '../support/test-server';
 
 let server: TestServer;
 beforeAll(async () => {
@@ -29,9 +29,9 @@ describe('the verdict column follows the results', () => {
     const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Verdict story', requirement: demoRequirement })).body;
     const id = dossier.revisions[0].id as number;
     expect(await stored(id)).toEqual({ column: 'incomplete', json: 'incomplete' });
-    await engineer.patch(`/api/revisions/${id}`).send({ design: failingDesign });
+    await saveDraft(engineer, id, { design: failingDesign });
     expect(await stored(id)).toEqual({ column: 'fails', json: 'fails' });
-    await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign });
+    await saveDraft(engineer, id, { design: demoDesign });
     expect(await stored(id)).toEqual({ column: 'meets', json: 'meets' });
     await engineer.post(`/api/revisions/${id}/submit`);
     expect(await stored(id)).toEqual({ column: 'meets', json: 'meets' });
