@@ -2,6 +2,7 @@
 // Reviews screens read the paged lists too.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement } from '../support/fixtures';
+import { saveDraft } from '../support/test-server';
 import { openBrowser, PHONE, WIDE, type Browser } from './browser';
 
 let browser: Browser;
@@ -12,7 +13,7 @@ beforeAll(async () => {
   for (let i = 1; i <= 52; i += 1) {
     const res = await engineer.post('/api/dossiers').send({ productId, title: `Bench unit ${String(i).padStart(2, '0')}`, requirement: demoRequirement });
     if (i === 52) {
-      await engineer.patch(`/api/revisions/${res.body.revisions[0].id}`).send({ design: demoDesign });
+      await saveDraft(engineer, res.body.revisions[0].id, { design: demoDesign });
       await engineer.post(`/api/revisions/${res.body.revisions[0].id}/submit`);
     }
   }
@@ -27,7 +28,8 @@ describe('paged lists in the browser', () => {
       [PHONE, 'dossier-card'],
     ] as const) {
       const p = await browser.page(viewport);
-      await p.signIn('viewer');
+      // An engineer sees every dossier (a viewer only those with approved work).
+      await p.signIn('engineer');
       await p.page.goto(`${browser.server.url}/dossiers`);
       await p.page.getByTestId(`${row}-${ids[0]}`).waitFor();
       expect(await p.page.getByTestId('dossiers-more-count').textContent()).toBe(`Showing 50 of ${ids.length}`);

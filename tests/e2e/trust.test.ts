@@ -95,7 +95,8 @@ describe('screens a certification engineer trusts', { timeout: 180_000 }, () => 
     await p.page.getByTestId('evidence-tab').waitFor();
     await uploadCapture(p.page, 'bench-a.csv', 1.3);
     await uploadCapture(p.page, 'bench-b.csv', 1.2);
-    await expect.poll(() => p.page.locator('[data-testid^="analysis-"]').count()).toBe(2);
+    // One analysis card per capture (its own notes carry testIDs that start the same way).
+    await expect.poll(() => p.page.locator('[data-testid^="analysis-"]').evaluateAll((els) => els.filter((e) => /^analysis-\d+$/.test(e.getAttribute('data-testid') ?? '')).length)).toBe(2);
 
     const legend = p.page.getByTestId('decay-chart').locator('[data-testid^="decay-chart-legend-measured-"] line');
     const colours = await legend.evaluateAll((lines) => lines.map((l) => l.getAttribute('stroke')));
@@ -195,7 +196,7 @@ describe('screens a certification engineer trusts', { timeout: 180_000 }, () => 
       expect(await text(p.page, 'return-note')).toContain('Revision 1 was returned to you by Marta Kowalczyk');
       const second = Number(/revisions\/(\d+)/.exec(p.page.url())![1]);
       await p.page.getByTestId('rev-bleeder-resistance').fill('82k');
-      await expect.poll(() => text(p.page, 'save-state'), { timeout: 15_000 }).toMatch(/^Saved .+ [A-Z]{2,5}$/);
+      await expect.poll(() => text(p.page, 'save-state'), { timeout: 15_000 }).toMatch(/^Saved .+ [A-Z]{2,5} ✓$/);
       await expectTidy(p, `trust-draft-answers-return-${name}`, { inputs: true });
 
       // A third revision, to compare with either earlier one.
