@@ -25,7 +25,14 @@ export default function CautionsScreen() {
 const styles = StyleSheet.create({
   page: { flex: 1, backgroundColor: colors.paper },
   content: { padding: space.xl, gap: space.lg, maxWidth: 760, width: '100%', alignSelf: 'center' },
-  item: { flexDirection: 'row', gap: space.md, backgroundColor: colors.surface, padding: space.md, borderLeftWidth: 4, borderLeftColor: colors.accent },
+  item: {
+    flexDirection: 'row',
+    gap: space.md,
+    backgroundColor: colors.surface,
+    padding: space.md,
+    borderLeftWidth: 4,
+    borderLeftColor: colors.accent,
+  },
   mark: { fontSize: 18, color: colors.accent },
   text: { flex: 1 },
   link: { fontFamily: fonts.semibold, color: colors.info, textDecorationLine: 'underline' },

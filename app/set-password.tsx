@@ -26,7 +26,8 @@ export default function SetPasswordScreen() {
   });
   const submit = handleSubmit(({ password }) => setPassword.mutate({ token, password }));
   // The server judges how guessable the password is and says why on the field.
-  const serverPasswordError = setPassword.error instanceof ApiError ? setPassword.error.fields.find((f) => f.path === 'password')?.message : undefined;
+  const serverPasswordError =
+    setPassword.error instanceof ApiError ? setPassword.error.fields.find((f) => f.path === 'password')?.message : undefined;
 
   let body;
   if (!token) body = <Message tone="error" text="This link is incomplete. Open the link from your e-mail again." testID="invite-invalid" />;
@@ -45,21 +46,39 @@ export default function SetPasswordScreen() {
     body = (
       <>
         <Text style={type.body} testID="set-password-intro">
-          {invite.data.kind === 'reset' ? `Choose a new password for ${invite.data.email}` : `Welcome, ${invite.data.name}. Choose a password for ${invite.data.email}`} (at
-          least 12 characters; several unrelated words work well). Setting it signs you out everywhere else.
+          {invite.data.kind === 'reset'
+            ? `Choose a new password for ${invite.data.email}`
+            : `Welcome, ${invite.data.name}. Choose a password for ${invite.data.email}`}{' '}
+          (at least 12 characters; several unrelated words work well). Setting it signs you out everywhere else.
         </Text>
         <Controller
           control={control}
           name="password"
           render={({ field }) => (
-            <TextField label="New password" testID="set-password-new" secureTextEntry autoComplete="new-password" value={field.value} onChangeText={field.onChange} error={formState.errors.password?.message ?? serverPasswordError} />
+            <TextField
+              label="New password"
+              testID="set-password-new"
+              secureTextEntry
+              autoComplete="new-password"
+              value={field.value}
+              onChangeText={field.onChange}
+              error={formState.errors.password?.message ?? serverPasswordError}
+            />
           )}
         />
         <Controller
           control={control}
           name="repeat"
           render={({ field }) => (
-            <TextField label="Repeat it" testID="set-password-repeat" secureTextEntry autoComplete="new-password" value={field.value} onChangeText={field.onChange} error={formState.errors.repeat?.message} />
+            <TextField
+              label="Repeat it"
+              testID="set-password-repeat"
+              secureTextEntry
+              autoComplete="new-password"
+              value={field.value}
+              onChangeText={field.onChange}
+              error={formState.errors.repeat?.message}
+            />
           )}
         />
         {setPassword.error && !serverPasswordError ? <Message tone="error" text={setPassword.error.message} /> : null}

@@ -48,9 +48,12 @@ export function AppShell({ me, children }: { me: Me; children: ReactNode }) {
           <Text style={styles.brand}>Voltfall</Text>
           {items.map((item) => (
             <Link key={item.href} href={item.href as never} asChild>
-              <Pressable testID={`nav-${item.short.toLowerCase()}`} style={StyleSheet.flatten([styles.railItem, isActive(pathname, item.href) && styles.railItemActive])}>
+              <Pressable
+                testID={`nav-${item.short.toLowerCase()}`}
+                style={StyleSheet.flatten([styles.railItem, isActive(pathname, item.href) && styles.railItemActive])}
+              >
                 <Text style={[styles.railText, isActive(pathname, item.href) && styles.railTextActive]}>
-                  {item.glyph}  {item.label}
+                  {item.glyph} {item.label}
                 </Text>
               </Pressable>
             </Link>

@@ -35,8 +35,8 @@ export function ApprovalDialog({ revision, signerName, signerRole, busy, passwor
               </Text>
             </View>
             <Text style={type.small}>
-              You sign as {signerName}. Your password makes this your signature: the record keeps your name, role, this meaning and the time, and the signed dossier
-              is issued with it.
+              You sign as {signerName}. Your password makes this your signature: the record keeps your name, role, this meaning and the time, and the
+              signed dossier is issued with it.
             </Text>
             {revision.contentHash ? <Text style={[type.mono, styles.hash]}>Content hash {revision.contentHash}</Text> : null}
             <TextField
@@ -65,7 +65,16 @@ export function ApprovalDialog({ revision, signerName, signerRole, busy, passwor
 const styles = StyleSheet.create({
   scrim: { flex: 1, backgroundColor: colors.scrim },
   center: { flexGrow: 1, alignItems: 'center', justifyContent: 'center', padding: space.lg },
-  dialog: { width: '100%', maxWidth: 520, backgroundColor: colors.surface, borderRadius: radius.lg, padding: space.xl, gap: space.lg, borderWidth: 1, borderColor: colors.line },
+  dialog: {
+    width: '100%',
+    maxWidth: 520,
+    backgroundColor: colors.surface,
+    borderRadius: radius.lg,
+    padding: space.xl,
+    gap: space.lg,
+    borderWidth: 1,
+    borderColor: colors.line,
+  },
   statement: { borderLeftWidth: 4, borderLeftColor: colors.brand, backgroundColor: colors.brandSoft, padding: space.md, borderRadius: radius.sm },
   statementText: { fontFamily: fonts.semibold, fontSize: 16, lineHeight: 22, color: colors.ink },
   hash: { fontSize: 11, color: colors.inkMuted },

@@ -26,7 +26,9 @@ export function AuditTrail({ report, revisions }: { report: AuditReport; revisio
       }
     >
       <Text style={type.small} testID="audit-count">
-        {events.length === 0 ? 'No events recorded.' : `${events.length} event${events.length === 1 ? '' : 's'}, newest first; showing ${page.length}.`}
+        {events.length === 0
+          ? 'No events recorded.'
+          : `${events.length} event${events.length === 1 ? '' : 's'}, newest first; showing ${page.length}.`}
       </Text>
       {page.map((e) => (
         <View key={e.id} style={styles.row} testID={`audit-event-${e.id}`}>

@@ -18,7 +18,19 @@ export function AuthPanel({ testID, children, after }: { testID: string; childre
 }
 
 /** The account's e-mail address in a signed-out form. */
-export function EmailField<T extends FieldValues>({ control, name, testID, error, onSubmit }: { control: Control<T>; name: Path<T>; testID: string; error?: string; onSubmit?: () => void }) {
+export function EmailField<T extends FieldValues>({
+  control,
+  name,
+  testID,
+  error,
+  onSubmit,
+}: {
+  control: Control<T>;
+  name: Path<T>;
+  testID: string;
+  error?: string;
+  onSubmit?: () => void;
+}) {
   return (
     <Controller
       control={control}
@@ -48,7 +60,16 @@ export const authStyles = StyleSheet.create({
 const styles = StyleSheet.create({
   page: { flex: 1, backgroundColor: colors.paper },
   center: { flexGrow: 1, alignItems: 'center', justifyContent: 'center', padding: space.lg, gap: space.lg },
-  panel: { width: '100%', maxWidth: 420, backgroundColor: colors.surface, borderRadius: radius.lg, borderWidth: 1, borderColor: colors.line, padding: space.xl, gap: space.lg },
+  panel: {
+    width: '100%',
+    maxWidth: 420,
+    backgroundColor: colors.surface,
+    borderRadius: radius.lg,
+    borderWidth: 1,
+    borderColor: colors.line,
+    padding: space.xl,
+    gap: space.lg,
+  },
   brand: { fontFamily: fonts.bold, fontSize: 28, color: colors.brand },
   after: { width: '100%', maxWidth: 420 },
 });

@@ -26,12 +26,11 @@ function comparison(check: Check): string {
 function marginText(check: Check): string | null {
   if (check.margin === null) return null;
   // Against a band the margin is to the nearer end (or past the end it falls beyond).
-  if (check.band) return check.margin >= 0 ? `${formatPercent(check.margin, 2)} inside the nearer end` : `${formatPercent(-check.margin, 2)} beyond the band`;
+  if (check.band)
+    return check.margin >= 0 ? `${formatPercent(check.margin, 2)} inside the nearer end` : `${formatPercent(-check.margin, 2)} beyond the band`;
   if (check.margin >= 0) return `${formatPercent(check.margin, 2)} margin`;
   // Far past the limit a ratio reads better than "over by 1300 %".
-  return check.margin > -1
-    ? `misses the limit by ${formatPercent(-check.margin, 2)}`
-    : `${Number((1 - check.margin).toPrecision(3))} × the limit`;
+  return check.margin > -1 ? `misses the limit by ${formatPercent(-check.margin, 2)}` : `${Number((1 - check.margin).toPrecision(3))} × the limit`;
 }
 
 /** One check of the discharge result: what was compared, the outcome in words and a mark, and what decided it. */
@@ -39,7 +38,11 @@ export function CheckCard({ check, testID = `check-${check.id}` }: Props) {
   const informative = isInformational(check);
   const margin = marginText(check);
   return (
-    <View testID={testID} style={[styles.card, !informative && !check.pass && styles.failed]} accessibilityLabel={`${check.label}: ${informative ? 'for information' : check.pass ? 'pass' : 'fail'}`}>
+    <View
+      testID={testID}
+      style={[styles.card, !informative && !check.pass && styles.failed]}
+      accessibilityLabel={`${check.label}: ${informative ? 'for information' : check.pass ? 'pass' : 'fail'}`}
+    >
       <View style={styles.head}>
         <Text style={[type.heading, styles.label]}>{check.label}</Text>
         {informative ? (

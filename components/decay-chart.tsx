@@ -104,8 +104,13 @@ export function DecayChart({ curve, requirement, measured = [], testID = 'decay-
   const plotWidth = Math.max(1, width - PAD.left - PAD.right);
   const traces = measured.map((m) => ({ name: m.name, points: decimate(m.trace, 0, end, plotWidth) }));
   const vTop = Math.max(safe ?? 0, ...curve.map((p) => Math.max(p.v, p.vWorst)), ...traces.flatMap((m) => m.points.map((p) => p.v)));
-  const x = scaleLinear().domain([0, end * axis.factor]).range([PAD.left, PAD.left + plotWidth]);
-  const y = scaleLinear().domain([0, vTop]).nice(5).range([height - PAD.bottom, PAD.top]);
+  const x = scaleLinear()
+    .domain([0, end * axis.factor])
+    .range([PAD.left, PAD.left + plotWidth]);
+  const y = scaleLinear()
+    .domain([0, vTop])
+    .nice(5)
+    .range([height - PAD.bottom, PAD.top]);
   const X = (t: number) => x(t * axis.factor);
   const path = line<TracePoint>()
     .x((p) => X(p.t))
@@ -130,10 +135,27 @@ export function DecayChart({ curve, requirement, measured = [], testID = 'decay-
   return (
     <View style={styles.wrap} testID={testID}>
       <View style={styles.legend}>
-        {curve.length > 0 ? <LegendEntry stroke={colors.chartNominal} width={2.5} label="Nominal (nominal parts, nominal bus)" testID={`${testID}-legend-nominal`} /> : null}
-        {curve.length > 0 ? <LegendEntry stroke={colors.chartWorst} width={2} dash={WORST_DASH} label="Worst case (slowest parts, maximum bus)" testID={`${testID}-legend-worst`} /> : null}
+        {curve.length > 0 ? (
+          <LegendEntry stroke={colors.chartNominal} width={2.5} label="Nominal (nominal parts, nominal bus)" testID={`${testID}-legend-nominal`} />
+        ) : null}
+        {curve.length > 0 ? (
+          <LegendEntry
+            stroke={colors.chartWorst}
+            width={2}
+            dash={WORST_DASH}
+            label="Worst case (slowest parts, maximum bus)"
+            testID={`${testID}-legend-worst`}
+          />
+        ) : null}
         {traces.map((m, i) => (
-          <LegendEntry key={`${i}-${m.name}`} stroke={measuredStroke(i).stroke} width={3} dash={measuredStroke(i).dash} label={`Measured: ${m.name}`} testID={`${testID}-legend-measured-${i}`} />
+          <LegendEntry
+            key={`${i}-${m.name}`}
+            stroke={measuredStroke(i).stroke}
+            width={3}
+            dash={measuredStroke(i).dash}
+            label={`Measured: ${m.name}`}
+            testID={`${testID}-legend-measured-${i}`}
+          />
         ))}
       </View>
       <Text style={type.small}>Bus voltage (V)</Text>
@@ -172,8 +194,23 @@ export function DecayChart({ curve, requirement, measured = [], testID = 'decay-
             ) : null}
             {limitX !== null && limit !== null && limit <= end ? (
               <G testID={`${testID}-limit-line`}>
-                <Line x1={limitX} x2={limitX} y1={PAD.top} y2={height - PAD.bottom} stroke={colors.chartLimit} strokeWidth={1.5} strokeDasharray={LIMIT_DASH} />
-                <SvgText x={limitLabelLeft ? limitX - 4 : limitX + 4} y={PAD.top - 8} fontSize={11} fontFamily={fonts.semibold} fill={colors.ink} textAnchor={limitLabelLeft ? 'end' : 'start'}>
+                <Line
+                  x1={limitX}
+                  x2={limitX}
+                  y1={PAD.top}
+                  y2={height - PAD.bottom}
+                  stroke={colors.chartLimit}
+                  strokeWidth={1.5}
+                  strokeDasharray={LIMIT_DASH}
+                />
+                <SvgText
+                  x={limitLabelLeft ? limitX - 4 : limitX + 4}
+                  y={PAD.top - 8}
+                  fontSize={11}
+                  fontFamily={fonts.semibold}
+                  fill={colors.ink}
+                  textAnchor={limitLabelLeft ? 'end' : 'start'}
+                >
                   {`Time limit ${formatQuantity(limit, 's')}`}
                 </SvgText>
               </G>
@@ -186,10 +223,23 @@ export function DecayChart({ curve, requirement, measured = [], testID = 'decay-
               </>
             ) : null}
             {traces.map((m, i) => (
-              <Path key={`${i}-${m.name}`} d={path(m.points) ?? ''} stroke={measuredStroke(i).stroke} strokeWidth={3} strokeOpacity={0.85} strokeDasharray={measuredStroke(i).dash} fill="none" testID={`${testID}-measured-${i}`} />
+              <Path
+                key={`${i}-${m.name}`}
+                d={path(m.points) ?? ''}
+                stroke={measuredStroke(i).stroke}
+                strokeWidth={3}
+                strokeOpacity={0.85}
+                strokeDasharray={measuredStroke(i).dash}
+                fill="none"
+                testID={`${testID}-measured-${i}`}
+              />
             ))}
-            {safe !== null && tNominal !== null ? <Circle cx={X(tNominal)} cy={y(safe)} r={4} fill={colors.surface} stroke={colors.chartNominal} strokeWidth={2} /> : null}
-            {safe !== null && tWorst !== null ? <Circle cx={X(tWorst)} cy={y(safe)} r={4} fill={colors.chartWorst} stroke={colors.chartWorst} strokeWidth={2} /> : null}
+            {safe !== null && tNominal !== null ? (
+              <Circle cx={X(tNominal)} cy={y(safe)} r={4} fill={colors.surface} stroke={colors.chartNominal} strokeWidth={2} />
+            ) : null}
+            {safe !== null && tWorst !== null ? (
+              <Circle cx={X(tWorst)} cy={y(safe)} r={4} fill={colors.chartWorst} stroke={colors.chartWorst} strokeWidth={2} />
+            ) : null}
           </Svg>
         ) : (
           <View style={{ height }} />

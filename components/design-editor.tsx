@@ -66,10 +66,7 @@ function withActiveMode(design: DesignDraft, mode: ActiveMode): DesignDraft {
   const delay = design.active?.delay ?? null;
   return {
     ...design,
-    active:
-      mode === 'constant-current'
-        ? { mode, current: null, delay }
-        : { mode, resistance: null, pulseEnergy: null, powerRating: null, delay },
+    active: mode === 'constant-current' ? { mode, current: null, delay } : { mode, resistance: null, pulseEnergy: null, powerRating: null, delay },
   };
 }
 
@@ -198,8 +195,24 @@ function MainsHelper({ testIDPrefix, onUse }: { testIDPrefix: string; onUse: (v:
       <Text style={type.label}>Maximum bus from AC mains: peak = √2 × V rms × (1 + tolerance)</Text>
       <FieldGrid>
         {[
-          <QuantityField key="rms" label="Mains voltage (RMS)" kind={MAINS_RMS} value={rms} onChange={setRms} testID={`${testIDPrefix}-mains-rms`} placeholder="400 V" />,
-          <QuantityField key="tol" label="Upper mains tolerance" kind={MAINS_TOLERANCE} value={tolerance} onChange={setTolerance} testID={`${testIDPrefix}-mains-tolerance`} placeholder="10 %" />,
+          <QuantityField
+            key="rms"
+            label="Mains voltage (RMS)"
+            kind={MAINS_RMS}
+            value={rms}
+            onChange={setRms}
+            testID={`${testIDPrefix}-mains-rms`}
+            placeholder="400 V"
+          />,
+          <QuantityField
+            key="tol"
+            label="Upper mains tolerance"
+            kind={MAINS_TOLERANCE}
+            value={tolerance}
+            onChange={setTolerance}
+            testID={`${testIDPrefix}-mains-tolerance`}
+            placeholder="10 %"
+          />,
         ]}
       </FieldGrid>
       <View style={styles.helperActions}>

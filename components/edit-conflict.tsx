@@ -34,19 +34,25 @@ export function EditConflict({ base, synced, stored, mine, onKeepMine, onTakeSto
     <View style={styles.box} testID="edit-conflict" accessibilityRole="alert">
       <Text style={type.heading}>⚠ Changed elsewhere — your input is not saved yet</Text>
       <Text style={type.body}>
-        Revision {stored.number} was saved elsewhere (now version {stored.version}; this page had version {base.version}). Your input is kept here. Keeping your
-        changes applies them on top of the stored version; inputs you did not touch keep their stored values.
+        Revision {stored.number} was saved elsewhere (now version {stored.version}; this page had version {base.version}). Your input is kept here.
+        Keeping your changes applies them on top of the stored version; inputs you did not touch keep their stored values.
       </Text>
 
       <Text style={styles.heading}>Changed elsewhere</Text>
-      {elsewhere.length === 0 && base.notes === stored.notes && !added.length && !removed.length ? <Text style={type.body}>Nothing you can see here (only the results were recomputed).</Text> : null}
+      {elsewhere.length === 0 && base.notes === stored.notes && !added.length && !removed.length ? (
+        <Text style={type.body}>Nothing you can see here (only the results were recomputed).</Text>
+      ) : null}
       {elsewhere.map((c) => (
         <View key={c.path} style={styles.line} testID={`conflict-change-${c.path}`}>
           <Text style={styles.label}>{c.label}</Text>
           <Text style={type.body}>
             Stored now: {c.from} → <Text style={styles.strong}>{c.to}</Text>
           </Text>
-          {mineByPath.has(c.path) ? <Text style={type.body}>Yours: {mineByPath.get(c.path)!.to}</Text> : <Text style={type.small}>You did not change this one.</Text>}
+          {mineByPath.has(c.path) ? (
+            <Text style={type.body}>Yours: {mineByPath.get(c.path)!.to}</Text>
+          ) : (
+            <Text style={type.small}>You did not change this one.</Text>
+          )}
         </View>
       ))}
       {base.notes !== stored.notes ? (
@@ -79,15 +85,33 @@ export function EditConflict({ base, synced, stored, mine, onKeepMine, onTakeSto
       ) : null}
 
       <View style={styles.buttons}>
-        <Button label="Keep my changes" testID="conflict-keep-mine" onPress={onKeepMine} accessibilityHint={`Saves your changes on top of version ${stored.version}`} />
-        <Button label="Take the stored version" variant="secondary" testID="conflict-take-stored" onPress={onTakeStored} accessibilityHint="Replaces your unsaved input with what is stored" />
+        <Button
+          label="Keep my changes"
+          testID="conflict-keep-mine"
+          onPress={onKeepMine}
+          accessibilityHint={`Saves your changes on top of version ${stored.version}`}
+        />
+        <Button
+          label="Take the stored version"
+          variant="secondary"
+          testID="conflict-take-stored"
+          onPress={onTakeStored}
+          accessibilityHint="Replaces your unsaved input with what is stored"
+        />
       </View>
     </View>
   );
 }
 
 const styles = StyleSheet.create({
-  box: { gap: space.sm, padding: space.lg, borderRadius: radius.md, borderWidth: 1, borderColor: colors.pending, backgroundColor: colors.pendingSoft },
+  box: {
+    gap: space.sm,
+    padding: space.lg,
+    borderRadius: radius.md,
+    borderWidth: 1,
+    borderColor: colors.pending,
+    backgroundColor: colors.pendingSoft,
+  },
   heading: { fontFamily: fonts.semibold, fontSize: 15, color: colors.ink, marginTop: space.sm },
   line: { paddingVertical: space.xs, borderTopWidth: 1, borderTopColor: colors.line, gap: 2 },
   label: { fontFamily: fonts.semibold, fontSize: 14, color: colors.ink },

@@ -48,7 +48,9 @@ export function InviteControls({ member }: { member: TeamMember }) {
   const invite = member.invite;
   return (
     <View style={styles.wrap}>
-      {invite?.status === 'open' ? <Badge label={`Invitation open until ${formatWhen(invite.expiresAt)}`} tone="pending" testID={`invite-state-${member.email}`} /> : null}
+      {invite?.status === 'open' ? (
+        <Badge label={`Invitation open until ${formatWhen(invite.expiresAt)}`} tone="pending" testID={`invite-state-${member.email}`} />
+      ) : null}
       {invite?.status === 'expired' ? <Badge label="Invitation expired" tone="fail" testID={`invite-state-${member.email}`} /> : null}
       {invite?.status === 'revoked' ? <Badge label="Invitation revoked" tone="neutral" testID={`invite-state-${member.email}`} /> : null}
       {asking ? (
@@ -62,13 +64,21 @@ export function InviteControls({ member }: { member: TeamMember }) {
               busy={run.isPending}
               onPress={() => confirm(asking)}
             />
-            <Button label="Keep as it is" variant="secondary" testID={`confirm-${asking}-no-${member.email}`} disabled={run.isPending} onPress={() => setAsking(null)} />
+            <Button
+              label="Keep as it is"
+              variant="secondary"
+              testID={`confirm-${asking}-no-${member.email}`}
+              disabled={run.isPending}
+              onPress={() => setAsking(null)}
+            />
           </View>
         </View>
       ) : (
         <View style={styles.row}>
           <Button label="Resend invitation" variant="secondary" testID={`resend-${member.email}`} onPress={() => ask('resend')} />
-          {invite?.status === 'open' ? <Button label="Revoke invitation" variant="secondary" testID={`revoke-${member.email}`} onPress={() => ask('revoke')} /> : null}
+          {invite?.status === 'open' ? (
+            <Button label="Revoke invitation" variant="secondary" testID={`revoke-${member.email}`} onPress={() => ask('revoke')} />
+          ) : null}
         </View>
       )}
       {done ? <Message text={`✓ ${done}`} testID={`invite-result-${member.email}`} /> : null}

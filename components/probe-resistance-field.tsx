@@ -33,11 +33,18 @@ export function ProbeResistanceField({ entry, onChange }: { entry: ProbeEntry; o
       />
       <View style={styles.presets}>
         {PRESETS.map((p) => (
-          <Button key={p.id} label={p.label} variant="secondary" testID={`capture-probe-preset-${p.id}`} onPress={() => onChange({ value: p.value, invalid: false })} />
+          <Button
+            key={p.id}
+            label={p.label}
+            variant="secondary"
+            testID={`capture-probe-preset-${p.id}`}
+            onPress={() => onChange({ value: p.value, invalid: false })}
+          />
         ))}
       </View>
       <Text style={type.small}>
-        The measured time constant is corrected for it (C at its lower tolerance). Left empty, the checks say that instrument loading was not corrected.
+        The measured time constant is corrected for it (C at its lower tolerance). Left empty, the checks say that instrument loading was not
+        corrected.
       </Text>
     </View>
   );

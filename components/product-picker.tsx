@@ -91,7 +91,17 @@ const styles = StyleSheet.create({
   // A row so the text field's own flex basis sizes its width, not its height.
   row: { flexDirection: 'row' },
   list: { gap: space.xs },
-  option: { minHeight: 44, paddingHorizontal: space.md, paddingVertical: space.sm, gap: 2, justifyContent: 'center', borderRadius: radius.md, borderWidth: 1, borderColor: colors.line, backgroundColor: colors.surface },
+  option: {
+    minHeight: 44,
+    paddingHorizontal: space.md,
+    paddingVertical: space.sm,
+    gap: 2,
+    justifyContent: 'center',
+    borderRadius: radius.md,
+    borderWidth: 1,
+    borderColor: colors.line,
+    backgroundColor: colors.surface,
+  },
   selected: { borderColor: colors.brand, backgroundColor: colors.brandSoft },
   title: { fontFamily: fonts.medium, fontSize: 15, color: colors.ink },
   titleSelected: { fontFamily: fonts.semibold, color: colors.brand },

@@ -43,9 +43,7 @@ export function singleFaultText(requirement: Pick<RequirementDraft, 'singleFault
 /** The preset whose figures and reference text the requirement still carries, if any. */
 function matchingPreset(value: RequirementDraft): RequirementPreset | undefined {
   const keys: Array<Exclude<NumberKey, typeof FAULT_LIMIT>> = ['safeVoltage', 'maxTime', 'maxEnergy', 'maxCharge', 'fallbackMaxTime'];
-  return REQUIREMENT_PRESETS.find(
-    (p) => p.values.reference === value.reference && keys.every((k) => (p.values[k] ?? null) === (value[k] ?? null)),
-  );
+  return REQUIREMENT_PRESETS.find((p) => p.values.reference === value.reference && keys.every((k) => (p.values[k] ?? null) === (value[k] ?? null)));
 }
 
 /**
@@ -125,8 +123,8 @@ export function RequirementEditor({ value, onChange, readOnly, testIDPrefix = 'r
         {value.singleFault ? (
           <>
             <Text style={type.small}>
-              Adds the worst-case time with one bleeder resistor open (its string lost) and the stress on the others with one series resistor shorted. Not needed
-              where the standard accepts the bleeder as a reliable component.
+              Adds the worst-case time with one bleeder resistor open (its string lost) and the stress on the others with one series resistor shorted.
+              Not needed where the standard accepts the bleeder as a reliable component.
             </Text>
             <FieldGrid>{REQUIREMENT_FIELDS.filter((spec) => spec.path === FAULT_LIMIT).map(field)}</FieldGrid>
           </>

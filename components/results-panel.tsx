@@ -2,7 +2,15 @@ import { Platform, StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, radius, space, type } from '../constants/theme';
 import { inputLabel } from '../shared/design-fields';
 import { completeInput, spiceNetlist } from '../shared/engine';
-import { isInformational, type BleederOption, type DesignDraft, type DischargeResult, type NetworkState, type RequirementDraft, type Suggestion } from '../shared/schema/discharge';
+import {
+  isInformational,
+  type BleederOption,
+  type DesignDraft,
+  type DischargeResult,
+  type NetworkState,
+  type RequirementDraft,
+  type Suggestion,
+} from '../shared/schema/discharge';
 import { formatQuantity } from '../shared/units';
 import { CautionLine } from './caution-line';
 import { CheckCard } from './check-card';
@@ -18,7 +26,6 @@ interface Props {
   measured?: readonly MeasuredTrace[];
   testIDPrefix?: string;
 }
-
 
 function verdictText(result: DischargeResult): { mark: string; words: string; tone: 'pass' | 'fail' | 'pending' } {
   if (result.verdict === 'incomplete') return { mark: '◷', words: 'Incomplete: no verdict yet', tone: 'pending' };
@@ -42,7 +49,11 @@ export function VerdictStrip({ result, testID = 'verdict-strip' }: { result: Dis
         ? `${firstFailure.label}: ${formatQuantity(firstFailure.value, firstFailure.unit)} against ${formatQuantity(firstFailure.limit, firstFailure.unit)}`
         : null;
   return (
-    <View style={[styles.strip, { backgroundColor: toneSoft[verdict.tone], borderColor: toneColour[verdict.tone] }]} testID={testID} accessibilityRole="summary">
+    <View
+      style={[styles.strip, { backgroundColor: toneSoft[verdict.tone], borderColor: toneColour[verdict.tone] }]}
+      testID={testID}
+      accessibilityRole="summary"
+    >
       <Text style={[styles.stripText, { color: toneColour[verdict.tone] }]} numberOfLines={2}>
         {verdict.mark} {verdict.words}
         {more ? <Text style={styles.stripMore}>{`  ·  ${more}`}</Text> : null}
@@ -74,13 +85,15 @@ export function ResultsPanel({ result, requirement, design, measured, testIDPref
 
   return (
     <View style={styles.wrap} testID={testIDPrefix}>
-      <View style={[styles.verdict, { backgroundColor: toneSoft[verdict.tone], borderColor: toneColour[verdict.tone] }]} testID={`${testIDPrefix}-verdict`} accessibilityRole="summary">
+      <View
+        style={[styles.verdict, { backgroundColor: toneSoft[verdict.tone], borderColor: toneColour[verdict.tone] }]}
+        testID={`${testIDPrefix}-verdict`}
+        accessibilityRole="summary"
+      >
         <Text style={[styles.verdictText, { color: toneColour[verdict.tone] }]} testID={`${testIDPrefix}-verdict-text`}>
           {verdict.mark} {verdict.words}
         </Text>
-        {result.verdict === 'fails' ? (
-          <Text style={type.body}>Failing: {failed.map((c) => c.label).join('; ')}.</Text>
-        ) : null}
+        {result.verdict === 'fails' ? <Text style={type.body}>Failing: {failed.map((c) => c.label).join('; ')}.</Text> : null}
         {result.verdict === 'incomplete' ? (
           <View style={styles.missing} testID={`${testIDPrefix}-missing`}>
             <Text style={type.body}>Fill in these inputs for a verdict:</Text>
@@ -133,8 +146,8 @@ export function ResultsPanel({ result, requirement, design, measured, testIDPref
       {complete?.ok ? (
         <Card title="Re-check in a circuit simulator" testID={`${testIDPrefix}-netlist`}>
           <Text style={type.small}>
-            The worst-case bleeder network, element by element, as a plain SPICE netlist: a transient run from the charged bank with a
-            measurement of the time to the safe threshold.
+            The worst-case bleeder network, element by element, as a plain SPICE netlist: a transient run from the charged bank with a measurement of
+            the time to the safe threshold.
           </Text>
           {Platform.OS === 'web' ? (
             <View style={styles.start}>
@@ -142,7 +155,9 @@ export function ResultsPanel({ result, requirement, design, measured, testIDPref
                 label="Download SPICE netlist"
                 variant="secondary"
                 testID="download-netlist"
-                onPress={() => downloadText('discharge-worst-case.cir', spiceNetlist({ requirement: complete.requirement, design: complete.design }, 'worst'))}
+                onPress={() =>
+                  downloadText('discharge-worst-case.cir', spiceNetlist({ requirement: complete.requirement, design: complete.design }, 'worst'))
+                }
               />
             </View>
           ) : (
@@ -201,9 +216,7 @@ function SuggestionCard({ suggestion, testID }: { suggestion: Suggestion; testID
     <Card title="Largest standard bleeder meeting every limit" testID={testID}>
       {suggestion.found ? (
         <>
-          <Text style={styles.suggestionHead}>
-            {arrangement(suggestion)}
-          </Text>
+          <Text style={styles.suggestionHead}>{arrangement(suggestion)}</Text>
           <Text style={type.small} testID={`${testID}-detail`}>
             {suggestion.detail}
           </Text>

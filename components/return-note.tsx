@@ -20,9 +20,7 @@ export function ReturnNote({ note, toReader, testID }: Props) {
       <Text style={type.body} testID={`${testID}-comment`}>
         “{note.comment}”
       </Text>
-      <Text style={type.small}>
-        {formatWhen(note.at)} · this revision answers it
-      </Text>
+      <Text style={type.small}>{formatWhen(note.at)} · this revision answers it</Text>
     </View>
   );
 }
@@ -33,6 +31,13 @@ export function returnLine(note: ReturnNoteView): string {
 }
 
 const styles = StyleSheet.create({
-  box: { gap: space.xs, padding: space.md, borderRadius: radius.sm, borderLeftWidth: 4, borderLeftColor: colors.fail, backgroundColor: colors.failSoft },
+  box: {
+    gap: space.xs,
+    padding: space.md,
+    borderRadius: radius.sm,
+    borderLeftWidth: 4,
+    borderLeftColor: colors.fail,
+    backgroundColor: colors.failSoft,
+  },
   head: { fontFamily: fonts.semibold, fontSize: 15, lineHeight: 21, color: colors.fail },
 });

@@ -31,7 +31,13 @@ function groupByFile(checks: readonly CheckChange[]): CheckGroup[] {
   return [...groups.values()].filter((g) => g.checks.length > 0);
 }
 
-const KIND_WORDS = { 'now-fails': 'Now fails', 'now-passes': 'Now passes', 'value-changed': 'Value changed', added: 'New check', removed: 'Check removed' } as const;
+const KIND_WORDS = {
+  'now-fails': 'Now fails',
+  'now-passes': 'Now passes',
+  'value-changed': 'Value changed',
+  added: 'New check',
+  removed: 'Check removed',
+} as const;
 
 /** The revision a new one is first compared with: the one it was started from, else the one before it. */
 function firstCounterpart(revision: Revision, others: Revision['siblings']): number | undefined {
@@ -50,7 +56,13 @@ export function RevisionChanges({ revision }: { revision: Revision }) {
   const other = others.find((s) => s.id === otherId);
   const [older, newer] = other && other.number > revision.number ? [revision.id, other.id] : [other?.id, revision.id];
   const diff = useRevisionDiff(newer, older);
-  if (!other) return <Message text={`Revision ${revision.number} is the only revision of this dossier; there is nothing to compare it with.`} testID="changes-none" />;
+  if (!other)
+    return (
+      <Message
+        text={`Revision ${revision.number} is the only revision of this dossier; there is nothing to compare it with.`}
+        testID="changes-none"
+      />
+    );
   const picker = (
     <Choice
       label={`Compare revision ${revision.number} with`}
@@ -60,8 +72,20 @@ export function RevisionChanges({ revision }: { revision: Revision }) {
       onChange={(id) => setOtherId(Number(id))}
     />
   );
-  if (diff.isError) return <View style={styles.wrap}>{picker}<Message tone="error" text={diff.error.message} /></View>;
-  if (!diff.data) return <View style={styles.wrap}>{picker}<Text style={type.body}>Comparing…</Text></View>;
+  if (diff.isError)
+    return (
+      <View style={styles.wrap}>
+        {picker}
+        <Message tone="error" text={diff.error.message} />
+      </View>
+    );
+  if (!diff.data)
+    return (
+      <View style={styles.wrap}>
+        {picker}
+        <Text style={type.body}>Comparing…</Text>
+      </View>
+    );
   const d = diff.data;
   return (
     <View style={styles.wrap} testID="changes">

@@ -77,7 +77,16 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
         <Text style={[type.small, saveProblem && styles.error]} testID="save-state">
           {saveWords(state, editable, revision.status)}
         </Text>
-        {state.kind === 'conflict' ? <EditConflict base={state.base} synced={state.synced} stored={state.stored} mine={content} onKeepMine={keepMine} onTakeStored={takeStored} /> : null}
+        {state.kind === 'conflict' ? (
+          <EditConflict
+            base={state.base}
+            synced={state.synced}
+            stored={state.stored}
+            mine={content}
+            onKeepMine={keepMine}
+            onTakeStored={takeStored}
+          />
+        ) : null}
         {errors.length ? <Message tone="error" text="Some inputs were not accepted; see the marked fields." /> : null}
         {handed ? (
           <Message
@@ -90,13 +99,7 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
             }
           />
         ) : null}
-        <DesignEditor
-          value={design}
-          readOnly={!editable}
-          testIDPrefix="rev"
-          serverErrors={errors}
-          onChange={(next) => edit({ design: next })}
-        />
+        <DesignEditor value={design} readOnly={!editable} testIDPrefix="rev" serverErrors={errors} onChange={(next) => edit({ design: next })} />
         <Card title="Snubbers">
           <SnubberListEditor
             value={design.snubbers ?? []}
@@ -118,7 +121,13 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
         </Card>
       </View>
       <View style={[styles.col, wide && styles.results]}>
-        <ResultsPanel result={revision.results} requirement={revision.dossier.requirement} design={design} measured={measuredTraces(revision)} testIDPrefix="rev" />
+        <ResultsPanel
+          result={revision.results}
+          requirement={revision.dossier.requirement}
+          design={design}
+          measured={measuredTraces(revision)}
+          testIDPrefix="rev"
+        />
       </View>
     </View>
   );

@@ -49,18 +49,28 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
   const [toRemove, setToRemove] = useState<EvidenceRecord | null>(null);
   const [removed, setRemoved] = useState<string | null>(null);
   const confirmRemoval = (e: EvidenceRecord) =>
-    remove.mutate({ evidenceId: e.id, version: revision.version }, {
-      onSuccess: () => {
-        setToRemove(null);
-        setRemoved(e.originalName);
+    remove.mutate(
+      { evidenceId: e.id, version: revision.version },
+      {
+        onSuccess: () => {
+          setToRemove(null);
+          setRemoved(e.originalName);
+        },
       },
-    });
+    );
 
   async function pick() {
     const picked = await DocumentPicker.getDocumentAsync({ type: PICKER_TYPES[kind], multiple: false, copyToCacheDirectory: false });
     const asset = picked.canceled ? null : picked.assets[0];
     const probeResistance = probe.value === null ? undefined : String(probe.value);
-    if (asset?.file) upload.mutate({ file: asset.file, name: asset.name, kind, version: revision.version, ...(kind === 'waveform' ? { ...capture, probeResistance } : {}) });
+    if (asset?.file)
+      upload.mutate({
+        file: asset.file,
+        name: asset.name,
+        kind,
+        version: revision.version,
+        ...(kind === 'waveform' ? { ...capture, probeResistance } : {}),
+      });
   }
 
   return (
@@ -70,10 +80,38 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
           <Choice label="Kind" testID="evidence-kind" options={KINDS} value={kind} onChange={setKind} />
           {kind === 'waveform' ? (
             <View style={styles.fields}>
-              <TextField label="Voltage channel (optional)" testID="capture-channel" placeholder="first channel" value={capture.channel} onChangeText={(channel) => setCapture({ ...capture, channel })} hint="Column name or 0-based index" />
-              <TextField label="Disconnect marker channel (optional)" testID="capture-marker" placeholder="none" value={capture.markerChannel} onChangeText={(markerChannel) => setCapture({ ...capture, markerChannel })} hint="Its edge marks the disconnect instant" />
-              <TextField label="Disconnect instant t0 (optional, s)" testID="capture-t0" placeholder="detected" value={capture.t0} onChangeText={(t0) => setCapture({ ...capture, t0 })} hint="On the capture's own time axis" />
-              <TextField label="Voltage scale (optional, ×)" testID="capture-scale" placeholder="1" value={capture.scale} onChangeText={(scale) => setCapture({ ...capture, scale })} hint="For probe-side volts: 100 for a 100:1 probe" />
+              <TextField
+                label="Voltage channel (optional)"
+                testID="capture-channel"
+                placeholder="first channel"
+                value={capture.channel}
+                onChangeText={(channel) => setCapture({ ...capture, channel })}
+                hint="Column name or 0-based index"
+              />
+              <TextField
+                label="Disconnect marker channel (optional)"
+                testID="capture-marker"
+                placeholder="none"
+                value={capture.markerChannel}
+                onChangeText={(markerChannel) => setCapture({ ...capture, markerChannel })}
+                hint="Its edge marks the disconnect instant"
+              />
+              <TextField
+                label="Disconnect instant t0 (optional, s)"
+                testID="capture-t0"
+                placeholder="detected"
+                value={capture.t0}
+                onChangeText={(t0) => setCapture({ ...capture, t0 })}
+                hint="On the capture's own time axis"
+              />
+              <TextField
+                label="Voltage scale (optional, ×)"
+                testID="capture-scale"
+                placeholder="1"
+                value={capture.scale}
+                onChangeText={(scale) => setCapture({ ...capture, scale })}
+                hint="For probe-side volts: 100 for a 100:1 probe"
+              />
               <ProbeResistanceField entry={probe} onChange={setProbe} />
             </View>
           ) : null}
@@ -86,11 +124,21 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
           {upload.error ? <Message tone="error" text={upload.error.message} testID="upload-error" /> : null}
           {remove.error ? <Message tone="error" text={remove.error.message} testID="remove-error" /> : null}
           <View style={styles.button}>
-            <Button label="Choose a file" testID="choose-file" busy={upload.isPending} disabled={kind === 'waveform' && probe.invalid} onPress={pick} />
+            <Button
+              label="Choose a file"
+              testID="choose-file"
+              busy={upload.isPending}
+              disabled={kind === 'waveform' && probe.invalid}
+              onPress={pick}
+            />
           </View>
         </Card>
       ) : (
-        <Message text={revision.status === 'draft' ? 'Only the author adds evidence to this draft.' : 'This revision is frozen; its evidence list cannot change.'} />
+        <Message
+          text={
+            revision.status === 'draft' ? 'Only the author adds evidence to this draft.' : 'This revision is frozen; its evidence list cannot change.'
+          }
+        />
       )}
 
       {measured.length ? (
@@ -100,11 +148,19 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
       ) : null}
 
       {removed ? (
-        <Message text={`✓ Removed “${removed}” from revision ${revision.number}; its results were recomputed without it.`} testID="evidence-removed" />
+        <Message
+          text={`✓ Removed “${removed}” from revision ${revision.number}; its results were recomputed without it.`}
+          testID="evidence-removed"
+        />
       ) : null}
       {revision.evidence.length === 0 ? <Message text="No evidence attached yet." testID="evidence-empty" /> : null}
       {revision.evidence.map((e) => (
-        <Card key={e.id} title={e.originalName} testID={`evidence-${e.id}`} right={<Badge label={KINDS.find((k) => k.value === e.kind)?.label ?? e.kind} tone="info" />}>
+        <Card
+          key={e.id}
+          title={e.originalName}
+          testID={`evidence-${e.id}`}
+          right={<Badge label={KINDS.find((k) => k.value === e.kind)?.label ?? e.kind} tone="info" />}
+        >
           <Text style={type.small}>
             {bytes(e.size)} · {e.mediaType} · {e.uploadedBy.name} · {formatWhen(e.uploadedAt)}
           </Text>

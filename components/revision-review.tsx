@@ -62,7 +62,14 @@ export function RevisionReview({ revision, me }: { revision: Revision; me: Me })
             Submitting freezes the inputs, notes, results and evidence list of revision {revision.number}. Every reviewer is e-mailed.
           </Text>
           {revision.results.verdict !== 'meets' ? (
-            <Message tone="error" text={revision.results.verdict === 'fails' ? 'The calculation fails at least one check. You may still submit it for a reviewer to see.' : 'Some inputs are missing; the verdict is incomplete.'} />
+            <Message
+              tone="error"
+              text={
+                revision.results.verdict === 'fails'
+                  ? 'The calculation fails at least one check. You may still submit it for a reviewer to see.'
+                  : 'Some inputs are missing; the verdict is incomplete.'
+              }
+            />
           ) : null}
           {submit.error ? <Message tone="error" text={submit.error.message} /> : null}
           <View style={styles.button}>
@@ -87,11 +94,20 @@ export function RevisionReview({ revision, me }: { revision: Revision; me: Me })
           {revision.results.verdict !== 'meets' ? (
             <Message
               testID="approve-blocked"
-              text={revision.results.verdict === 'fails' ? 'The calculation fails at least one check, so this revision can only be returned.' : 'Inputs are incomplete, so this revision can only be returned.'}
+              text={
+                revision.results.verdict === 'fails'
+                  ? 'The calculation fails at least one check, so this revision can only be returned.'
+                  : 'Inputs are incomplete, so this revision can only be returned.'
+              }
             />
           ) : null}
           <View style={styles.inline}>
-            <Button label="Approve and sign…" testID="approve" disabled={revision.results.verdict !== 'meets' || decide.isPending} onPress={openSigning} />
+            <Button
+              label="Approve and sign…"
+              testID="approve"
+              disabled={revision.results.verdict !== 'meets' || decide.isPending}
+              onPress={openSigning}
+            />
             <Button label="Return for changes" variant="danger" testID="return" busy={decide.isPending} onPress={() => send('return')} />
           </View>
         </Card>
@@ -115,11 +131,13 @@ export function RevisionReview({ revision, me }: { revision: Revision; me: Me })
       {revision.decision ? (
         <Card title="Decision" testID="decision">
           <Text style={[styles.decision, { color: revision.decision.decision === 'approve' ? colors.pass : colors.fail }]}>
-            {revision.decision.decision === 'approve' ? '✓ Approved' : '✕ Returned for changes'} by {revision.decision.reviewer.name}, {formatWhen(revision.decision.at)}
+            {revision.decision.decision === 'approve' ? '✓ Approved' : '✕ Returned for changes'} by {revision.decision.reviewer.name},{' '}
+            {formatWhen(revision.decision.at)}
           </Text>
           {revision.decision.meaning ? (
             <Text style={type.small} testID="decision-signature">
-              {revision.decision.decision === 'approve' ? 'Signed' : 'Recorded'} by {revision.decision.signerName} ({revision.decision.signerRole}): {revision.decision.meaning}
+              {revision.decision.decision === 'approve' ? 'Signed' : 'Recorded'} by {revision.decision.signerName} ({revision.decision.signerRole}):{' '}
+              {revision.decision.meaning}
             </Text>
           ) : null}
           {revision.decision.comment ? <Text style={type.body}>“{revision.decision.comment}”</Text> : null}
@@ -142,7 +160,13 @@ export function RevisionReview({ revision, me }: { revision: Revision; me: Me })
             <TextField label="Add a comment" testID="comment-body" multiline value={commentText} onChangeText={setCommentText} />
             {comment.error ? <Message tone="error" text={comment.error.message} /> : null}
             <View style={styles.button}>
-              <Button label="Post comment" variant="secondary" testID="post-comment" busy={comment.isPending} onPress={() => comment.mutate(commentText, { onSuccess: () => setCommentText('') })} />
+              <Button
+                label="Post comment"
+                variant="secondary"
+                testID="post-comment"
+                busy={comment.isPending}
+                onPress={() => comment.mutate(commentText, { onSuccess: () => setCommentText('') })}
+              />
             </View>
           </>
         ) : null}

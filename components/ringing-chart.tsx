@@ -34,8 +34,7 @@ interface Props {
 const PAD = { left: 52, right: 16, top: 10, bottom: 34 };
 const BEFORE_DASH = '6 4';
 
-const tickText = (value: number, unit: string) =>
-  unit ? formatQuantity(value, unit, 3) : String(Number(value.toPrecision(3)));
+const tickText = (value: number, unit: string) => (unit ? formatQuantity(value, unit, 3) : String(Number(value.toPrecision(3))));
 
 /** Damped ringing of a switching node before and after a snubber: two traces told apart by dash and by name. */
 export function RingingChart({ before, after, beforeLabel, afterLabel, unit, yTitle, settled, summary, testID, height = 220 }: Props) {
@@ -46,8 +45,13 @@ export function RingingChart({ before, after, beforeLabel, afterLabel, unit, yTi
   const tMax = Math.max(...all.map((p) => p.t));
   const vMin = Math.min(0, ...all.map((p) => p.v));
   const vMax = Math.max(settled, ...all.map((p) => p.v));
-  const x = scaleLinear().domain([0, tMax]).range([PAD.left, Math.max(PAD.left + 1, width - PAD.right)]);
-  const y = scaleLinear().domain([vMin, vMax]).nice(5).range([height - PAD.bottom, PAD.top]);
+  const x = scaleLinear()
+    .domain([0, tMax])
+    .range([PAD.left, Math.max(PAD.left + 1, width - PAD.right)]);
+  const y = scaleLinear()
+    .domain([vMin, vMax])
+    .nice(5)
+    .range([height - PAD.bottom, PAD.top]);
   const path = line<RingingPoint>()
     .x((p) => x(p.t))
     .y((p) => y(p.v));
@@ -77,13 +81,35 @@ export function RingingChart({ before, after, beforeLabel, afterLabel, unit, yTi
               {xTicks.map((t) => (
                 <G key={`x${t}`}>
                   <Line x1={x(t)} x2={x(t)} y1={height - PAD.bottom} y2={height - PAD.bottom + 4} stroke={colors.chartLimit} strokeWidth={1} />
-                  <SvgText x={x(t)} y={height - PAD.bottom + 16} fontSize={11} fontFamily={fonts.regular} fill={colors.inkMuted} textAnchor={x(t) > width - PAD.right - 24 ? 'end' : 'middle'}>
+                  <SvgText
+                    x={x(t)}
+                    y={height - PAD.bottom + 16}
+                    fontSize={11}
+                    fontFamily={fonts.regular}
+                    fill={colors.inkMuted}
+                    textAnchor={x(t) > width - PAD.right - 24 ? 'end' : 'middle'}
+                  >
                     {formatQuantity(t, 's', 3)}
                   </SvgText>
                 </G>
               ))}
-              <Line x1={PAD.left} x2={width - PAD.right} y1={height - PAD.bottom} y2={height - PAD.bottom} stroke={colors.chartLimit} strokeWidth={1} />
-              <Line x1={PAD.left} x2={width - PAD.right} y1={y(settled)} y2={y(settled)} stroke={colors.chartLimit} strokeWidth={1} strokeDasharray="2 3" />
+              <Line
+                x1={PAD.left}
+                x2={width - PAD.right}
+                y1={height - PAD.bottom}
+                y2={height - PAD.bottom}
+                stroke={colors.chartLimit}
+                strokeWidth={1}
+              />
+              <Line
+                x1={PAD.left}
+                x2={width - PAD.right}
+                y1={y(settled)}
+                y2={y(settled)}
+                stroke={colors.chartLimit}
+                strokeWidth={1}
+                strokeDasharray="2 3"
+              />
               <Path d={path([...before]) ?? ''} stroke={colors.chartWorst} strokeWidth={1.5} strokeDasharray={BEFORE_DASH} fill="none" />
               <Path d={path([...after]) ?? ''} stroke={colors.chartNominal} strokeWidth={2.5} fill="none" />
               <SvgText x={width - PAD.right} y={height - 4} fontSize={11} fontFamily={fonts.regular} fill={colors.inkMuted} textAnchor="end">

@@ -57,8 +57,16 @@ export function SnubberCopyBlock({ sizing, input }: Props) {
       </Text>
       <View style={styles.copyActions}>
         <Button label="Copy" variant="secondary" testID="sizing-copy-button" onPress={copy} />
-        {copied === 'yes' ? <Text style={type.small} testID="sizing-copied">✓ Copied</Text> : null}
-        {copied === 'blocked' ? <Text style={type.small} testID="sizing-copy-blocked">This browser blocked copying; select the text above and copy it.</Text> : null}
+        {copied === 'yes' ? (
+          <Text style={type.small} testID="sizing-copied">
+            ✓ Copied
+          </Text>
+        ) : null}
+        {copied === 'blocked' ? (
+          <Text style={type.small} testID="sizing-copy-blocked">
+            This browser blocked copying; select the text above and copy it.
+          </Text>
+        ) : null}
       </View>
     </Card>
   );

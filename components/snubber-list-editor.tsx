@@ -1,7 +1,14 @@
 import { useRef } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, radius, space, type } from '../constants/theme';
-import { SNUBBER_KIND_FIELDS, SNUBBER_KIND_WORDS, SNUBBER_OPERATING_FIELDS, SNUBBER_PART_FIELDS, type SnubberFieldSpec, type SnubberNumericKey } from '../shared/design-fields';
+import {
+  SNUBBER_KIND_FIELDS,
+  SNUBBER_KIND_WORDS,
+  SNUBBER_OPERATING_FIELDS,
+  SNUBBER_PART_FIELDS,
+  type SnubberFieldSpec,
+  type SnubberNumericKey,
+} from '../shared/design-fields';
 import { snubberChecks } from '../shared/engine/snubber';
 import type { Check } from '../shared/schema/discharge';
 import { snubberSchema, type SnubberKind } from '../shared/schema/snubber';
@@ -85,9 +92,7 @@ function withKind(draft: SnubberDraft, kind: SnubberKind): SnubberDraft {
 
 const newSnubber = (index: number): SnubberDraft => ({ kind: 'rc', name: `SN${index + 1}`, location: '', accessible: false });
 
-type Evaluation =
-  | { state: 'checked'; checks: Check[] }
-  | { state: 'incomplete'; missing: string[]; problems: Record<string, string> };
+type Evaluation = { state: 'checked'; checks: Check[] } | { state: 'incomplete'; missing: string[]; problems: Record<string, string> };
 
 /** The engine's checks when the draft is a whole snubber; otherwise what is missing and what is wrong. */
 function evaluate(draft: SnubberDraft): Evaluation {
@@ -237,7 +242,14 @@ function SnubberEntry({ draft, index, readOnly, testID, serverProblems, onChange
           error={problemOf('location')}
         />
       </View>
-      <Choice label="Kind" testID={`${testID}-kind`} options={KIND_OPTIONS} value={draft.kind} readOnly={readOnly} onChange={(kind) => onChange(withKind(draft, kind))} />
+      <Choice
+        label="Kind"
+        testID={`${testID}-kind`}
+        options={KIND_OPTIONS}
+        value={draft.kind}
+        readOnly={readOnly}
+        onChange={(kind) => onChange(withKind(draft, kind))}
+      />
 
       <Text style={styles.group}>Parts and ratings</Text>
       <View style={styles.row}>{PARTS.map(numeric)}</View>
@@ -267,7 +279,11 @@ function SnubberEntry({ draft, index, readOnly, testID, serverProblems, onChange
           )}
         </View>
       ) : refusedEmpty && evaluation.missing.length ? (
-        <Message tone="error" testID={`${testID}-checks-pending`} text={`Not accepted until these are filled in: ${evaluation.missing.join(', ')}.`} />
+        <Message
+          tone="error"
+          testID={`${testID}-checks-pending`}
+          text={`Not accepted until these are filled in: ${evaluation.missing.join(', ')}.`}
+        />
       ) : (
         <Text style={type.small} testID={`${testID}-checks-pending`}>
           {evaluation.missing.length
@@ -317,7 +333,15 @@ const styles = StyleSheet.create({
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   group: { ...type.label, color: colors.ink, textTransform: 'uppercase', letterSpacing: 0.4, paddingTop: space.xs },
   checks: { gap: space.sm },
-  undecided: { gap: space.xs, padding: space.md, borderRadius: radius.md, borderWidth: 1, borderStyle: 'dashed', borderColor: colors.pending, backgroundColor: colors.surface },
+  undecided: {
+    gap: space.xs,
+    padding: space.md,
+    borderRadius: radius.md,
+    borderWidth: 1,
+    borderStyle: 'dashed',
+    borderColor: colors.pending,
+    backgroundColor: colors.surface,
+  },
   addRow: { alignSelf: 'flex-start' },
   removeRow: { alignSelf: 'flex-start' },
 });

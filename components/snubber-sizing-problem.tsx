@@ -53,6 +53,14 @@ export function SnubberSizingProblem({ message, reasons, lastSized, onRestore }:
 
 const styles = StyleSheet.create({
   wrap: { gap: space.md },
-  last: { gap: space.xs, padding: space.md, borderRadius: radius.md, borderWidth: 1, borderStyle: 'dashed', borderColor: colors.line, backgroundColor: colors.paper },
+  last: {
+    gap: space.xs,
+    padding: space.md,
+    borderRadius: radius.md,
+    borderWidth: 1,
+    borderStyle: 'dashed',
+    borderColor: colors.line,
+    backgroundColor: colors.paper,
+  },
   start: { alignSelf: 'flex-start', paddingTop: space.xs },
 });

@@ -25,16 +25,22 @@ export function SnubberSizingResults({ sizing }: { sizing: RingingSizing }) {
       label: `Damping ratio with ${parts}`,
       value: formatDampingRatio(sizing.dampingRatio),
       note:
-        (sizing.ringFrequency === null
-          ? 'no ringing left'
-          : `still rings at ${formatQuantity(sizing.ringFrequency, 'Hz')}, decaying`) +
+        (sizing.ringFrequency === null ? 'no ringing left' : `still rings at ${formatQuantity(sizing.ringFrequency, 'Hz')}, decaying`) +
         `; lossless loop assumed; a design's damping check asks at least ${DEFAULT_MIN_DAMPING_RATIO} (common practice)`,
     },
   ];
   if (sizing.power !== null && sizing.powerE12 !== null) {
     rows.push(
-      { id: 'power', label: `Resistor dissipation C·V²·f_sw with ${formatQuantity(sizing.capacitance, 'F')}`, value: formatQuantity(sizing.power, 'W') },
-      { id: 'power-e12', label: `Resistor dissipation with ${formatQuantity(sizing.capacitanceE12, 'F')}`, value: formatQuantity(sizing.powerE12, 'W') },
+      {
+        id: 'power',
+        label: `Resistor dissipation C·V²·f_sw with ${formatQuantity(sizing.capacitance, 'F')}`,
+        value: formatQuantity(sizing.power, 'W'),
+      },
+      {
+        id: 'power-e12',
+        label: `Resistor dissipation with ${formatQuantity(sizing.capacitanceE12, 'F')}`,
+        value: formatQuantity(sizing.powerE12, 'W'),
+      },
     );
   }
   return (
@@ -50,7 +56,9 @@ export function SnubberSizingResults({ sizing }: { sizing: RingingSizing }) {
           </Text>
         </View>
       ))}
-      {sizing.power === null ? <Text style={[type.small, styles.after]}>Add the switching voltage and frequency for the resistor dissipation.</Text> : null}
+      {sizing.power === null ? (
+        <Text style={[type.small, styles.after]}>Add the switching voltage and frequency for the resistor dissipation.</Text>
+      ) : null}
     </View>
   );
 }

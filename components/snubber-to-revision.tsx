@@ -23,8 +23,8 @@ export function SnubberToRevision({ sizing, input }: Props) {
   return (
     <Card title="Add to a draft revision" testID="sizing-to-revision">
       <Text style={type.small}>
-        Adds an RC snubber with {snubberParts(sizing)} and the measured loop (L_par, C_par) to the draft’s snubber list; enter its
-        ratings, tolerance and location there.
+        Adds an RC snubber with {snubberParts(sizing)} and the measured loop (L_par, C_par) to the draft’s snubber list; enter its ratings, tolerance
+        and location there.
       </Text>
       {overview.isError ? <Message tone="error" text={overview.error.message} /> : null}
       {overview.data && drafts.length === 0 ? (

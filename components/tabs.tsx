@@ -15,7 +15,14 @@ export function Tabs<T extends string>({ tabs, value, onChange, testID }: Props<
       {tabs.map((t) => {
         const selected = t.key === value;
         return (
-          <Pressable key={t.key} role="tab" aria-selected={selected} testID={`${testID}-${t.key}`} onPress={() => onChange(t.key)} style={[styles.tab, selected && styles.selected]}>
+          <Pressable
+            key={t.key}
+            role="tab"
+            aria-selected={selected}
+            testID={`${testID}-${t.key}`}
+            onPress={() => onChange(t.key)}
+            style={[styles.tab, selected && styles.selected]}
+          >
             <Text style={[styles.text, selected && styles.textSelected]}>{t.label}</Text>
           </Pressable>
         );

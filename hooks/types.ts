@@ -43,5 +43,14 @@ export interface Revision extends RevisionView {
 export interface AuditReport {
   verified: boolean;
   firstBroken: { id: number; reason: string } | null;
-  events: Array<{ id: number; action: string; actorName: string | null; subjectType: string; subjectId: string; createdAt: string; payload: unknown; hash: string }>;
+  events: Array<{
+    id: number;
+    action: string;
+    actorName: string | null;
+    subjectType: string;
+    subjectId: string;
+    createdAt: string;
+    payload: unknown;
+    hash: string;
+  }>;
 }

@@ -35,7 +35,12 @@ export type SaveState =
   | { kind: 'conflict'; base: StoredDraft; synced: DraftContent; stored: RevisionView };
 
 const sameContent = (a: DraftContent, b: DraftContent) => a.notes === b.notes && JSON.stringify(a.design) === JSON.stringify(b.design);
-const storedOf = (r: Pick<RevisionView, 'version' | 'design' | 'notes' | 'evidence'>): StoredDraft => ({ version: r.version, design: r.design, notes: r.notes, evidence: r.evidence });
+const storedOf = (r: Pick<RevisionView, 'version' | 'design' | 'notes' | 'evidence'>): StoredDraft => ({
+  version: r.version,
+  design: r.design,
+  notes: r.notes,
+  evidence: r.evidence,
+});
 
 export function useDraftAutosave(revision: Revision, editable: boolean) {
   // `mutate` keeps its identity across renders (the mutation result object does not).

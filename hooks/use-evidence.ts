@@ -64,7 +64,8 @@ export function useUploadEvidence(revisionId: number, dossierId: number) {
 export function useRemoveEvidence(revisionId: number) {
   const client = useQueryClient();
   return useMutation({
-    mutationFn: ({ evidenceId, version }: { evidenceId: number; version: number }) => apiSend<{ ok: true; revisionVersion: number }>('DELETE', `/evidence/${evidenceId}?version=${version}`),
+    mutationFn: ({ evidenceId, version }: { evidenceId: number; version: number }) =>
+      apiSend<{ ok: true; revisionVersion: number }>('DELETE', `/evidence/${evidenceId}?version=${version}`),
     onSettled: () => client.invalidateQueries({ queryKey: keys.revision(revisionId) }),
   });
 }

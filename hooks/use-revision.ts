@@ -67,7 +67,8 @@ export function useSubmitRevision(id: number) {
 export function useDecideRevision(id: number) {
   const invalidate = useInvalidateRevision();
   return useMutation({
-    mutationFn: (body: { decision: 'approve' | 'return'; comment: string; password?: string }) => apiSend<Revision>('POST', `/revisions/${id}/decision`, body),
+    mutationFn: (body: { decision: 'approve' | 'return'; comment: string; password?: string }) =>
+      apiSend<Revision>('POST', `/revisions/${id}/decision`, body),
     onSuccess: invalidate,
   });
 }

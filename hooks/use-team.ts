@@ -65,7 +65,11 @@ export interface OutboxMessage {
 export function useOutbox() {
   return useQuery({
     queryKey: keys.outbox,
-    queryFn: () => apiGet<{ messages: OutboxMessage[]; queued: Array<{ id: number; to: string; subject: string; status: string; attempts: number; lastError: string | null }> }>('/outbox'),
+    queryFn: () =>
+      apiGet<{
+        messages: OutboxMessage[];
+        queued: Array<{ id: number; to: string; subject: string; status: string; attempts: number; lastError: string | null }>;
+      }>('/outbox'),
     refetchInterval: 5_000,
   });
 }

@@ -32,11 +32,19 @@ async function renderAndSign(): Promise<void> {
   try {
     const setup = developmentSetup(pki, tsa.url);
     const build = (status: 'approved' | 'draft') => {
-      const { model } = servoDriveDossier({ status, full: true, tracePoints: 2000, signerSubject: setup.identity.subject, timestampAuthority: tsa.url });
+      const { model } = servoDriveDossier({
+        status,
+        full: true,
+        tracePoints: 2000,
+        signerSubject: setup.identity.subject,
+        timestampAuthority: tsa.url,
+      });
       model.signer.fingerprintSha256 = setup.identity.fingerprintSha256;
       return model;
     };
-    const waveforms = build('approved').evidence.filter((e) => e.analysis).map((e) => e.analysis!.trace.length);
+    const waveforms = build('approved')
+      .evidence.filter((e) => e.analysis)
+      .map((e) => e.analysis!.trace.length);
 
     let last: Buffer = Buffer.alloc(0);
     for (let i = 0; i < WARM_UP; i += 1) last = await renderDossierPdf(build('approved'), { sign: { setup } });
@@ -58,11 +66,18 @@ async function renderAndSign(): Promise<void> {
     writeFileSync(file, last);
     const pages = /^Pages:\s+(\d+)/m.exec(execFileSync('pdfinfo', [file], { encoding: 'utf8' }))?.[1] ?? '?';
     const sig = execFileSync('pdfsig', [file], { encoding: 'utf8' });
-    const verdict = sig.includes('Signature is Valid.') && sig.includes('ETSI.CAdES.detached') ? 'valid (ETSI.CAdES.detached, timestamped)' : 'NOT VALID';
+    const verdict =
+      sig.includes('Signature is Valid.') && sig.includes('ETSI.CAdES.detached') ? 'valid (ETSI.CAdES.detached, timestamped)' : 'NOT VALID';
     const m = median(signed);
-    console.log(`dossier: ${pages} pages, ${(last.length / 1024).toFixed(0)} KiB, ${waveforms.length} waveforms (${waveforms.join(', ')} points), signature ${verdict}`);
-    console.log(`render + sign + timestamp + DSS, ${RUNS} runs after ${WARM_UP} warm-up: median ${m.toFixed(0)} ms (min ${Math.min(...signed).toFixed(0)}, max ${Math.max(...signed).toFixed(0)})`);
-    console.log(`reference in the same run, the same dossier unsigned: median ${median(unsigned).toFixed(0)} ms; signing adds ×${(m / median(unsigned)).toFixed(2)}`);
+    console.log(
+      `dossier: ${pages} pages, ${(last.length / 1024).toFixed(0)} KiB, ${waveforms.length} waveforms (${waveforms.join(', ')} points), signature ${verdict}`,
+    );
+    console.log(
+      `render + sign + timestamp + DSS, ${RUNS} runs after ${WARM_UP} warm-up: median ${m.toFixed(0)} ms (min ${Math.min(...signed).toFixed(0)}, max ${Math.max(...signed).toFixed(0)})`,
+    );
+    console.log(
+      `reference in the same run, the same dossier unsigned: median ${median(unsigned).toFixed(0)} ms; signing adds ×${(m / median(unsigned)).toFixed(2)}`,
+    );
     console.log(`target ≤ 1000 ms median: ${m <= 1000 ? 'met' : 'NOT met'}`);
   } finally {
     await tsa.close();
@@ -107,7 +122,9 @@ async function healthWhileApproving(): Promise<void> {
       const times: number[] = [];
       for (const id of ids) {
         const start = performance.now();
-        const res = await reviewer.post(`/api/revisions/${id}/decision`).send({ decision: 'approve', comment: 'Bench approval.', password: 'voltfall-demo' });
+        const res = await reviewer
+          .post(`/api/revisions/${id}/decision`)
+          .send({ decision: 'approve', comment: 'Bench approval.', password: 'voltfall-demo' });
         if (res.status !== 200) throw new Error(`approval answered ${res.status}: ${JSON.stringify(res.body)}`);
         times.push(performance.now() - start);
       }

@@ -63,7 +63,13 @@ async function seedDossiers(db: Db, total: number, authorId: string, productId: 
       const dossierIds: number[] = [];
       for (const i of batch) {
         const [row] = await trx('dossier')
-          .insert({ product_id: productId, title: `Seeded dossier ${i}`, requirement: JSON.stringify({ ...demoRequirement, reference: `Plan ${i}` }), created_by: authorId, created_at: now })
+          .insert({
+            product_id: productId,
+            title: `Seeded dossier ${i}`,
+            requirement: JSON.stringify({ ...demoRequirement, reference: `Plan ${i}` }),
+            created_by: authorId,
+            created_at: now,
+          })
           .returning('id');
         dossierIds.push(row.id);
       }
@@ -80,19 +86,39 @@ async function seedDossiers(db: Db, total: number, authorId: string, productId: 
       }));
       const ids: number[] = [];
       for (let k = 0; k < revisions.length; k += 50) {
-        ids.push(...(await trx('revision').insert(revisions.slice(k, k + 50)).returning('id')).map((r: { id: number }) => r.id));
+        ids.push(
+          ...(
+            await trx('revision')
+              .insert(revisions.slice(k, k + 50))
+              .returning('id')
+          ).map((r: { id: number }) => r.id),
+        );
       }
       // Along the workflow the triggers allow: a quarter stay drafts, the rest are submitted, some decided.
       const submitted = ids.filter((_, k) => k % 4 !== 0);
       await trx('revision').whereIn('id', submitted).update({ status: 'in_review', submitted_at: now });
-      await trx('revision').whereIn('id', submitted.filter((_, k) => k % 3 === 1)).update({ status: 'approved', decided_at: now });
-      await trx('revision').whereIn('id', submitted.filter((_, k) => k % 3 === 2)).update({ status: 'returned', decided_at: now });
+      await trx('revision')
+        .whereIn(
+          'id',
+          submitted.filter((_, k) => k % 3 === 1),
+        )
+        .update({ status: 'approved', decided_at: now });
+      await trx('revision')
+        .whereIn(
+          'id',
+          submitted.filter((_, k) => k % 3 === 2),
+        )
+        .update({ status: 'returned', decided_at: now });
     }
   });
 }
 
 async function signIn(base: string, email: string): Promise<string> {
-  const res = await fetch(`${base}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json', origin: base }, body: JSON.stringify({ email, password: DEMO_PASSWORD }) });
+  const res = await fetch(`${base}/api/auth/sign-in`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', origin: base },
+    body: JSON.stringify({ email, password: DEMO_PASSWORD }),
+  });
   if (!res.ok) throw new Error(`sign-in ${email}: ${res.status}`);
   return res.headers.get('set-cookie')!.split(';')[0];
 }
@@ -119,10 +145,23 @@ async function alternate(a: autocannon.Options, b: autocannon.Options) {
 
 try {
   const workers = Number(process.env.WEB_CONCURRENCY ?? availableParallelism());
-  console.log(`Voltfall server benchmark: ${workers} worker(s), ${availableParallelism()} CPU(s), load average ${(await import('node:os')).loadavg().map((l) => l.toFixed(1)).join(' ')}`);
+  console.log(
+    `Voltfall server benchmark: ${workers} worker(s), ${availableParallelism()} CPU(s), load average ${(await import('node:os'))
+      .loadavg()
+      .map((l) => l.toFixed(1))
+      .join(' ')}`,
+  );
   const [, port] = await startChild(
     ['--import', 'tsx', 'server/index.ts'],
-    { NODE_ENV: 'development', PORT: '0', HOST: '127.0.0.1', VOLTFALL_DATA_DIR: dir, FAKE_SMTP_PORT: '0', WEB_CONCURRENCY: String(workers), SIGN_IN_LIMIT_PER_15_MIN: '100000' },
+    {
+      NODE_ENV: 'development',
+      PORT: '0',
+      HOST: '127.0.0.1',
+      VOLTFALL_DATA_DIR: dir,
+      FAKE_SMTP_PORT: '0',
+      WEB_CONCURRENCY: String(workers),
+      SIGN_IN_LIMIT_PER_15_MIN: '100000',
+    },
     'server',
     /"port":(\d+),"workers"|"port":(\d+),"dataDir"/,
   ).then((m) => [m[0], m[1] ?? m[2]]);
@@ -144,10 +183,20 @@ try {
     console.log(`\nseeded ${total} dossiers (${((Date.now() - started) / 1000).toFixed(1)} s)`);
     const { a: reference, b: list } = await alternate(bare, { url: `${base}/api/dossiers`, connections: 8, headers });
     listCost[total] = { ...list, rps: list.rps / reference.rps };
-    report(`dossier list, first page of 50, at ${total}`, `${list.rps.toFixed(0)} req/s = ${listCost[total].rps.toFixed(3)} × bare, p99 ${list.p99} ms, ${list.bytes.toFixed(0)} B, ${list.errors} errors`, '', null);
+    report(
+      `dossier list, first page of 50, at ${total}`,
+      `${list.rps.toFixed(0)} req/s = ${listCost[total].rps.toFixed(3)} × bare, p99 ${list.p99} ms, ${list.bytes.toFixed(0)} B, ${list.errors} errors`,
+      '',
+      null,
+    );
   }
   const httpRatio = listCost[100].rps / listCost[10_000].rps;
-  report('dossier list over HTTP, cost at 10 000 / at 100', `${httpRatio.toFixed(2)} (each against bare at its size; noisy on a loaded machine)`, '', null);
+  report(
+    'dossier list over HTTP, cost at 10 000 / at 100',
+    `${httpRatio.toFixed(2)} (each against bare at its size; noisy on a loaded machine)`,
+    '',
+    null,
+  );
   // The list query itself, on a second data folder of 100 dossiers, alternating call by call with the
   // 10 000 one so both see the same load.
   const small = await openDatabase(join(dir, 'small'));
@@ -157,7 +206,10 @@ try {
   const firstPage = dossierListQuerySchema.parse({});
   const times: Record<'small' | 'large', number[]> = { small: [], large: [] };
   for (let i = 0; i < 300; i += 1) {
-    for (const [key, target] of [['small', small], ['large', db]] as const) {
+    for (const [key, target] of [
+      ['small', small],
+      ['large', db],
+    ] as const) {
       const start = performance.now();
       await listDossiers(target, firstPage, { approvedOnly: false });
       times[key].push(performance.now() - start);
@@ -165,7 +217,12 @@ try {
   }
   const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
   const queryRatio = median(times.large) / median(times.small);
-  report('dossier list query, median of 300 calls each', `${median(times.small).toFixed(2)} ms at 100, ${median(times.large).toFixed(2)} ms at 10 000: ${queryRatio.toFixed(2)}×`, 'same cost (≤ 1.5×)', queryRatio <= 1.5);
+  report(
+    'dossier list query, median of 300 calls each',
+    `${median(times.small).toFixed(2)} ms at 100, ${median(times.large).toFixed(2)} ms at 10 000: ${queryRatio.toFixed(2)}×`,
+    'same cost (≤ 1.5×)',
+    queryRatio <= 1.5,
+  );
   await small.destroy();
   for (const filter of ['status=in_review', 'q=Seeded%20dossier%209999', `productId=${product.id}&status=approved`]) {
     const r = await run({ url: `${base}/api/dossiers?${filter}`, connections: 8, headers, duration: ROUND_SECONDS });
@@ -177,7 +234,12 @@ try {
   const body = JSON.stringify({ requirement: demoRequirement, design: demoDesign });
   const { a: reference, b: check } = await alternate(bare, { url: `${base}/api/calc/discharge`, method: 'POST', connections: 64, headers, body });
   report('bare Express JSON route', `${reference.rps.toFixed(0)} req/s, p99 ${reference.p99} ms`, '', null);
-  report('check route req/s ÷ bare', `${(check.rps / reference.rps).toFixed(3)} (${check.rps.toFixed(0)} req/s, ${check.bytes.toFixed(0)} B a answer)`, '≥ 0.40', check.rps / reference.rps >= 0.4);
+  report(
+    'check route req/s ÷ bare',
+    `${(check.rps / reference.rps).toFixed(3)} (${check.rps.toFixed(0)} req/s, ${check.bytes.toFixed(0)} B a answer)`,
+    '≥ 0.40',
+    check.rps / reference.rps >= 0.4,
+  );
   report('check route p99', `${check.p99} ms`, '≤ 50 ms', check.p99 <= 50);
   report('check route errors', `${check.errors}`, '0', check.errors === 0);
 
@@ -199,7 +261,11 @@ try {
   }
   const draftOf = async (i: number) => {
     const c = await signIn(base, `bench-${i}@fennel.test`);
-    const res = await fetch(`${base}/api/dossiers`, { method: 'POST', headers: { ...headers, cookie: c }, body: JSON.stringify({ productId: product.id, title: `Session ${i}`, requirement: demoRequirement }) });
+    const res = await fetch(`${base}/api/dossiers`, {
+      method: 'POST',
+      headers: { ...headers, cookie: c },
+      body: JSON.stringify({ productId: product.id, title: `Session ${i}`, requirement: demoRequirement }),
+    });
     const dossier = (await res.json()) as { revisions: Array<{ id: number }> };
     sessions[i] = { cookie: c, draftId: dossier.revisions[0].id, sent: 0, acked: 0 };
   };
@@ -245,11 +311,25 @@ try {
     ],
   });
   await new Promise((r) => setTimeout(r, 1_000));
-  const stored = new Map((await db('revision').whereIn('id', sessions.map((s) => s.draftId)).select('id', 'notes')).map((r) => [r.id, Number(/write (\d+)/.exec(r.notes)?.[1] ?? 0)]));
+  const stored = new Map(
+    (
+      await db('revision')
+        .whereIn(
+          'id',
+          sessions.map((s) => s.draftId),
+        )
+        .select('id', 'notes')
+    ).map((r) => [r.id, Number(/write (\d+)/.exec(r.notes)?.[1] ?? 0)]),
+  );
   const lost = sessions.filter((s) => (stored.get(s.draftId) ?? 0) < s.acked).length;
   const writes = sessions.reduce((n, s) => n + s.acked, 0);
   report('mixed: requests', `${mixed.requests.total} (${mixed.requests.average.toFixed(0)} req/s), ${writes} acknowledged saves`, '', null);
-  report('mixed: errors', `${errorsOf(mixed)} (${mixed.timeouts} timeouts, ${mixed.non2xx} non-2xx, ${mixed.errors - mixed.timeouts} other)`, '0', errorsOf(mixed) === 0);
+  report(
+    'mixed: errors',
+    `${errorsOf(mixed)} (${mixed.timeouts} timeouts, ${mixed.non2xx} non-2xx, ${mixed.errors - mixed.timeouts} other)`,
+    '0',
+    errorsOf(mixed) === 0,
+  );
   report('mixed: lost writes', `${lost} of ${SESSIONS} drafts behind their last acknowledged save`, '0', lost === 0);
   report('mixed: p99', `${mixed.latency.p99} ms`, '≤ 1000 ms', mixed.latency.p99 <= 1000);
   await db.destroy();

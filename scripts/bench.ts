@@ -2,7 +2,9 @@
 import { spawnSync } from 'node:child_process';
 import { readdirSync } from 'node:fs';
 
-const benches = readdirSync('scripts').filter((f) => /^bench-.+\.ts$/.test(f)).sort();
+const benches = readdirSync('scripts')
+  .filter((f) => /^bench-.+\.ts$/.test(f))
+  .sort();
 let failed = 0;
 for (const file of benches) {
   console.log(`\n=== ${file} ===`);

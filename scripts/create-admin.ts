@@ -16,9 +16,19 @@ const config = loadConfig(process.env, {});
 const db = await openDatabase(config.dataDir);
 const id = randomUUID();
 const link = await db.transaction(async (trx) => {
-  await trx('user').insert({ id, email: email.trim().toLowerCase(), name, role: 'admin', password_hash: null, disabled_at: null, created_at: new Date().toISOString() });
+  await trx('user').insert({
+    id,
+    email: email.trim().toLowerCase(),
+    name,
+    role: 'admin',
+    password_hash: null,
+    disabled_at: null,
+    created_at: new Date().toISOString(),
+  });
   await appendAudit(trx, { actorId: null, action: 'user.create_admin', subjectType: 'user', subjectId: id, payload: { email } });
   return issueLink(trx, systemClock, id, 'invite');
 });
 await db.destroy();
-console.log(`Admin created. Choose the password before ${link.expiresAt.toUTCString()} at:\n${config.publicUrl ?? `http://localhost:${config.port}`}/set-password?token=${link.token}`);
+console.log(
+  `Admin created. Choose the password before ${link.expiresAt.toUTCString()} at:\n${config.publicUrl ?? `http://localhost:${config.port}`}/set-password?token=${link.token}`,
+);

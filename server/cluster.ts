@@ -57,7 +57,10 @@ export async function startCluster(env: Record<string, string | undefined>, coun
     log.error({ worker: worker.id, code, signal }, 'worker died; starting a new one');
     fork();
   });
-  log.info({ port, workers: count, dataDir: config.dataDir, fakeSmtp: primary.fakeSmtp?.url ?? null, localTsa: signing.localTsaUrl }, 'Voltfall is listening');
+  log.info(
+    { port, workers: count, dataDir: config.dataDir, fakeSmtp: primary.fakeSmtp?.url ?? null, localTsa: signing.localTsaUrl },
+    'Voltfall is listening',
+  );
 
   return {
     url: `http://127.0.0.1:${port}`,

@@ -46,13 +46,17 @@ const systemCode = (err: unknown): string => String((err as { code?: unknown } |
 export function storageFault(err: unknown): AppError | null {
   const code = systemCode(err);
   if (code.startsWith('SQLITE_BUSY') || code.startsWith('SQLITE_LOCKED')) {
-    return new AppError(503, 'busy', 'The database is busy with another writer; nothing was saved. Try again in a moment.', undefined, { headers: { 'Retry-After': '2' } });
+    return new AppError(503, 'busy', 'The database is busy with another writer; nothing was saved. Try again in a moment.', undefined, {
+      headers: { 'Retry-After': '2' },
+    });
   }
   if (code === 'ENOSPC' || code === 'EDQUOT' || code.startsWith('SQLITE_FULL')) {
     return new AppError(507, 'insufficient_storage', 'The server has no storage space left; nothing was saved. Ask the administrator to free space.');
   }
   if (code === 'EROFS' || code === 'EACCES' || code === 'EPERM' || code.startsWith('SQLITE_READONLY')) {
-    return new AppError(503, 'read_only', 'The data folder is read-only at the moment; nothing was saved. Reading still works.', undefined, { headers: { 'Retry-After': '60' } });
+    return new AppError(503, 'read_only', 'The data folder is read-only at the moment; nothing was saved. Reading still works.', undefined, {
+      headers: { 'Retry-After': '60' },
+    });
   }
   return null;
 }
@@ -75,7 +79,12 @@ export const errorMiddleware: ErrorRequestHandler = (err, req, res, _next) => {
   }
   // body-parser marks its own failures (bad JSON, too large, too deep) with a status and a type.
   if (!(err instanceof AppError) && typeof err?.status === 'number' && err.status < 500) {
-    const codes: Record<string, string> = { 'entity.parse.failed': 'malformed_json', 'entity.too.large': 'too_large', 'entity.too.deep': 'too_deep', 'charset.unsupported': 'unsupported_charset' };
+    const codes: Record<string, string> = {
+      'entity.parse.failed': 'malformed_json',
+      'entity.too.large': 'too_large',
+      'entity.too.deep': 'too_deep',
+      'charset.unsupported': 'unsupported_charset',
+    };
     const code = codes[String(err.type)] ?? 'bad_request';
     const message = code === 'malformed_json' ? 'The request body is not valid JSON.' : String(err.message);
     err = new AppError(err.status, code, message);
@@ -89,7 +98,9 @@ export const errorMiddleware: ErrorRequestHandler = (err, req, res, _next) => {
   }
   if (err instanceof AppError) {
     for (const [name, value] of Object.entries(err.extra.headers ?? {})) res.setHeader(name, value);
-    res.status(err.status).json({ error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) }, ...err.extra.body });
+    res
+      .status(err.status)
+      .json({ error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) }, ...err.extra.body });
     return;
   }
   req.log?.error({ err }, 'unhandled error');

@@ -9,7 +9,22 @@ declare module 'http' {
 }
 
 // Names of fields that hold secrets, wherever they sit in a logged object (pino's redact needs a path per depth).
-const SECRET_NAMES = ['password', 'newPassword', 'currentPassword', 'password_hash', 'passwordHash', 'token', 'resetToken', 'inviteToken', 'token_hash', 'sessionId', 'cookie', 'set-cookie', 'authorization', 'p12Password'];
+const SECRET_NAMES = [
+  'password',
+  'newPassword',
+  'currentPassword',
+  'password_hash',
+  'passwordHash',
+  'token',
+  'resetToken',
+  'inviteToken',
+  'token_hash',
+  'sessionId',
+  'cookie',
+  'set-cookie',
+  'authorization',
+  'p12Password',
+];
 const REDACT_PATHS = SECRET_NAMES.flatMap((name) => {
   const key = /^[A-Za-z_$][\w$]*$/.test(name) ? `.${name}` : `["${name}"]`;
   return ['', '*', '*.*', '*.*.*'].map((depth) => `${depth}${key}`.replace(/^\./, ''));

@@ -40,7 +40,11 @@ export async function startPrimaryWork(db: Db, config: Config, log: Logger, cloc
   const fakeSmtp = config.production ? null : await startFakeSmtp(db, config.smtp.fakePort);
   const mail = new MailSender(db, config.smtp.url ?? fakeSmtp!.url, config.smtp.from, log);
   mail.start();
-  const expiring: Expiring = { sessions: new Sessions(db, clock, config.sessions, config.production), throttle: new Throttle(db, clock, config), log };
+  const expiring: Expiring = {
+    sessions: new Sessions(db, clock, config.sessions, config.production),
+    throttle: new Throttle(db, clock, config),
+    log,
+  };
   const sweep = new BackgroundLoop('sweep of expired sessions and throttles', () => sweepExpired(expiring), log, config.sessions.sweepMs);
   sweep.start();
   return {

@@ -5,7 +5,6 @@ import type { InputChange } from './schema/api';
 import type { DesignDraft } from './schema/discharge';
 import type { QuantityUnit } from './units';
 
-
 function flatten(obj: unknown, prefix = ''): Map<string, unknown> {
   const out = new Map<string, unknown>();
   if (obj && typeof obj === 'object' && !Array.isArray(obj)) {
@@ -32,18 +31,45 @@ function show(kind: FieldKind | undefined, value: unknown): string {
 
 // Snubber fields in plain words (the rest of the design is described in shared/design-fields.ts).
 const SNUBBER_WORDS: Record<string, string> = {
-  name: 'name', location: 'location', kind: 'kind', resistance: 'resistance', capacitance: 'capacitance',
-  capacitanceTolerance: 'capacitance tolerance', powerRating: 'resistor power rating', derating: 'derating',
-  capacitorVoltageRating: 'capacitor voltage rating', switchingVoltage: 'switching voltage', overshoot: 'overshoot',
-  switchingFrequency: 'switching frequency', accessible: 'accessible after switch-off', parasiticInductance: 'loop inductance',
-  parasiticCapacitance: 'node capacitance', switchedCurrent: 'switched current', fallTime: 'current fall time',
-  minOnTime: 'minimum on-time', leakageInductance: 'leakage inductance', peakCurrent: 'peak current',
-  clampVoltage: 'clamp voltage', reflectedVoltage: 'reflected voltage',
+  name: 'name',
+  location: 'location',
+  kind: 'kind',
+  resistance: 'resistance',
+  capacitance: 'capacitance',
+  capacitanceTolerance: 'capacitance tolerance',
+  powerRating: 'resistor power rating',
+  derating: 'derating',
+  capacitorVoltageRating: 'capacitor voltage rating',
+  switchingVoltage: 'switching voltage',
+  overshoot: 'overshoot',
+  switchingFrequency: 'switching frequency',
+  accessible: 'accessible after switch-off',
+  parasiticInductance: 'loop inductance',
+  parasiticCapacitance: 'node capacitance',
+  switchedCurrent: 'switched current',
+  fallTime: 'current fall time',
+  minOnTime: 'minimum on-time',
+  leakageInductance: 'leakage inductance',
+  peakCurrent: 'peak current',
+  clampVoltage: 'clamp voltage',
+  reflectedVoltage: 'reflected voltage',
 };
 const SNUBBER_UNITS: Record<string, QuantityUnit> = {
-  resistance: 'Ω', capacitance: 'F', powerRating: 'W', capacitorVoltageRating: 'V', switchingVoltage: 'V', switchingFrequency: 'Hz',
-  parasiticInductance: 'H', parasiticCapacitance: 'F', switchedCurrent: 'A', fallTime: 's', minOnTime: 's', leakageInductance: 'H',
-  peakCurrent: 'A', clampVoltage: 'V', reflectedVoltage: 'V',
+  resistance: 'Ω',
+  capacitance: 'F',
+  powerRating: 'W',
+  capacitorVoltageRating: 'V',
+  switchingVoltage: 'V',
+  switchingFrequency: 'Hz',
+  parasiticInductance: 'H',
+  parasiticCapacitance: 'F',
+  switchedCurrent: 'A',
+  fallTime: 's',
+  minOnTime: 's',
+  leakageInductance: 'H',
+  peakCurrent: 'A',
+  clampVoltage: 'V',
+  reflectedVoltage: 'V',
 };
 
 function describePath(path: string, design: DesignDraft): { label: string; kind?: FieldKind } {
@@ -53,7 +79,11 @@ function describePath(path: string, design: DesignDraft): { label: string; kind?
   if (snub) {
     const name = design.snubbers?.[Number(snub[1])]?.name || `#${Number(snub[1]) + 1}`;
     const unit = SNUBBER_UNITS[snub[2]];
-    const kind: FieldKind | undefined = unit ? { type: 'quantity', unit } : ['capacitanceTolerance', 'derating', 'overshoot'].includes(snub[2]) ? { type: 'percent' } : undefined;
+    const kind: FieldKind | undefined = unit
+      ? { type: 'quantity', unit }
+      : ['capacitanceTolerance', 'derating', 'overshoot'].includes(snub[2])
+        ? { type: 'percent' }
+        : undefined;
     return { label: `Snubber ${name}: ${SNUBBER_WORDS[snub[2]] ?? snub[2]}`, kind };
   }
   return { label: path };
@@ -101,7 +131,11 @@ function unflatten(leaves: Map<string, unknown>): Record<string, unknown> {
     });
   }
   const compact = (v: unknown): unknown =>
-    Array.isArray(v) ? v.filter((x) => x !== undefined).map(compact) : v && typeof v === 'object' ? Object.fromEntries(Object.entries(v).map(([k, x]) => [k, compact(x)])) : v;
+    Array.isArray(v)
+      ? v.filter((x) => x !== undefined).map(compact)
+      : v && typeof v === 'object'
+        ? Object.fromEntries(Object.entries(v).map(([k, x]) => [k, compact(x)]))
+        : v;
   return compact(root) as Record<string, unknown>;
 }
 

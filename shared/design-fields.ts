@@ -43,7 +43,13 @@ export const REQUIREMENT_FIELDS: FieldSpec[] = [
   { path: 'maxEnergy', label: 'Energy limit', kind: q('J'), placeholder: 'in J', optional: true },
   { path: 'maxCharge', label: 'Charge limit', kind: q('C'), placeholder: 'in C', optional: true },
   { path: 'fallbackMaxTime', label: 'Bleeder-only time limit', kind: q('s'), placeholder: 'in s', optional: true },
-  { path: 'singleFaultMaxTime', label: 'Time limit under a single fault (if longer)', kind: q('s'), placeholder: 'same as the time limit', optional: true },
+  {
+    path: 'singleFaultMaxTime',
+    label: 'Time limit under a single fault (if longer)',
+    kind: q('s'),
+    placeholder: 'same as the time limit',
+    optional: true,
+  },
 ];
 
 export const DESIGN_GROUPS: FieldGroup[] = [

@@ -23,11 +23,11 @@ export default function AccountScreen() {
         <Card title="More">
           {more.map((item) => (
             <Link key={item.href} href={item.href as never} style={styles.link} testID={`more-${item.short.toLowerCase()}`}>
-              {item.glyph}  {item.label}
+              {item.glyph} {item.label}
             </Link>
           ))}
           <Link href="/cautions" style={styles.link}>
-            ⚠  Cautions
+            ⚠ Cautions
           </Link>
         </Card>
       ) : null}

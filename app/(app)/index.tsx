@@ -18,13 +18,43 @@ export default function OverviewScreen() {
       {lists ? (
         <View style={[styles.columns, wide && styles.wide]}>
           {me.role === 'reviewer' ? (
-            <OverviewCard list="awaitingMyReview" first={lists.awaitingMyReview} title="Awaiting my review" empty="Nothing awaits your review." testID="awaiting-review" style={wide ? styles.col : undefined} />
+            <OverviewCard
+              list="awaitingMyReview"
+              first={lists.awaitingMyReview}
+              title="Awaiting my review"
+              empty="Nothing awaits your review."
+              testID="awaiting-review"
+              style={wide ? styles.col : undefined}
+            />
           ) : null}
           {authors ? (
-            <OverviewCard list="returnedToMe" first={lists.returnedToMe} title="Returned to me" empty="No revision of yours was returned." testID="returned-to-me" style={wide ? styles.col : undefined} />
+            <OverviewCard
+              list="returnedToMe"
+              first={lists.returnedToMe}
+              title="Returned to me"
+              empty="No revision of yours was returned."
+              testID="returned-to-me"
+              style={wide ? styles.col : undefined}
+            />
           ) : null}
-          {authors ? <OverviewCard list="myDrafts" first={lists.myDrafts} title="My drafts" empty="You have no open drafts." testID="my-drafts" style={wide ? styles.col : undefined} /> : null}
-          <OverviewCard list="recentlyApproved" first={lists.recentlyApproved} title="Recently approved" empty="No revision has been approved yet." testID="recently-approved" style={wide ? styles.col : undefined} />
+          {authors ? (
+            <OverviewCard
+              list="myDrafts"
+              first={lists.myDrafts}
+              title="My drafts"
+              empty="You have no open drafts."
+              testID="my-drafts"
+              style={wide ? styles.col : undefined}
+            />
+          ) : null}
+          <OverviewCard
+            list="recentlyApproved"
+            first={lists.recentlyApproved}
+            title="Recently approved"
+            empty="No revision has been approved yet."
+            testID="recently-approved"
+            style={wide ? styles.col : undefined}
+          />
         </View>
       ) : null}
     </Screen>

@@ -18,7 +18,10 @@ export default function OutboxScreen() {
             <View key={q.id} style={styles.row}>
               <Badge label={q.status === 'failed' ? 'Gave up' : `Retrying (${q.attempts})`} tone={q.status === 'failed' ? 'fail' : 'pending'} />
               <Text style={type.body}>{q.subject}</Text>
-              <Text style={type.small}>To {q.to}{q.lastError ? ` — ${q.lastError}` : ''}</Text>
+              <Text style={type.small}>
+                To {q.to}
+                {q.lastError ? ` — ${q.lastError}` : ''}
+              </Text>
             </View>
           ))}
         </Card>

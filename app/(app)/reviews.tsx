@@ -24,7 +24,9 @@ export default function ReviewsScreen() {
               </Text>
               <View style={styles.row}>
                 <VerdictBadge verdict={r.verdict} />
-                <Text style={[type.small, !r.mayDecide && styles.muted]}>{r.mayDecide ? 'You may decide' : 'You authored it or are not a reviewer: view only'}</Text>
+                <Text style={[type.small, !r.mayDecide && styles.muted]}>
+                  {r.mayDecide ? 'You may decide' : 'You authored it or are not a reviewer: view only'}
+                </Text>
               </View>
             </Card>
           </Pressable>

@@ -131,8 +131,8 @@ export default function SnubberSizingScreen() {
     <View style={[styles.column, wide && styles.columnWide]}>
       <Card title="Bench measurement">
         <Text style={type.small}>
-          Read the ring frequency of the switching node, add a known capacitor across it, and read the lower frequency.
-          Values take SI prefixes: “20 MHz”, “300p”, “1.5 nF”.
+          Read the ring frequency of the switching node, add a known capacitor across it, and read the lower frequency. Values take SI prefixes: “20
+          MHz”, “300p”, “1.5 nF”.
         </Text>
         {MEASUREMENT.map((spec) => (
           <View key={spec.name} style={styles.row}>
@@ -143,7 +143,11 @@ export default function SnubberSizingScreen() {
       <Card title="Operating point">
         <Text style={type.small}>Give both to estimate the snubber resistor’s dissipation.</Text>
         <View style={styles.row}>{OPERATING.map(field)}</View>
-        {halfOperatingPoint ? <Text style={type.small} testID="sizing-operating-half">Enter both the voltage and the frequency for a dissipation figure.</Text> : null}
+        {halfOperatingPoint ? (
+          <Text style={type.small} testID="sizing-operating-half">
+            Enter both the voltage and the frequency for a dissipation figure.
+          </Text>
+        ) : null}
       </Card>
     </View>
   );

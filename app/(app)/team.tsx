@@ -46,23 +46,46 @@ export default function TeamScreen() {
     resolver: zodResolver(inviteUserSchema),
     defaultValues: { email: '', name: '', role: 'engineer' },
   });
-  if (me.role !== 'admin') return <Screen title="Team" testID="team-screen"><Message text="Only administrators manage the team." /></Screen>;
+  if (me.role !== 'admin')
+    return (
+      <Screen title="Team" testID="team-screen">
+        <Message text="Only administrators manage the team." />
+      </Screen>
+    );
   const submit = handleSubmit((values) => invite.mutate(values, { onSuccess: () => reset() }));
 
   return (
     <Screen title="Team" subtitle="Invite people, resend or revoke invitations, set roles, disable accounts." testID="team-screen">
       <Card title="Invite someone">
         <View style={styles.row}>
-          <Controller control={control} name="name" render={({ field }) => (
-            <TextField label="Name" testID="invite-name" value={field.value} onChangeText={field.onChange} error={formState.errors.name?.message} />
-          )} />
-          <Controller control={control} name="email" render={({ field }) => (
-            <TextField label="E-mail" testID="invite-email" autoCapitalize="none" keyboardType="email-address" value={field.value} onChangeText={field.onChange} error={formState.errors.email?.message} />
-          )} />
+          <Controller
+            control={control}
+            name="name"
+            render={({ field }) => (
+              <TextField label="Name" testID="invite-name" value={field.value} onChangeText={field.onChange} error={formState.errors.name?.message} />
+            )}
+          />
+          <Controller
+            control={control}
+            name="email"
+            render={({ field }) => (
+              <TextField
+                label="E-mail"
+                testID="invite-email"
+                autoCapitalize="none"
+                keyboardType="email-address"
+                value={field.value}
+                onChangeText={field.onChange}
+                error={formState.errors.email?.message}
+              />
+            )}
+          />
         </View>
-        <Controller control={control} name="role" render={({ field }) => (
-          <Choice label="Role" testID="invite-role" options={roleOptions} value={field.value} onChange={field.onChange} />
-        )} />
+        <Controller
+          control={control}
+          name="role"
+          render={({ field }) => <Choice label="Role" testID="invite-role" options={roleOptions} value={field.value} onChange={field.onChange} />}
+        />
         {invite.error ? <Message tone="error" text={invite.error.message} /> : null}
         {invite.isSuccess ? <Message text={`Invitation sent to ${invite.data.email}.`} testID="invite-sent" /> : null}
         <Button label="Send invitation" testID="invite-submit" onPress={submit} busy={invite.isPending} />
@@ -73,7 +96,13 @@ export default function TeamScreen() {
           <View key={user.id} style={styles.person} testID={`team-row-${user.email}`}>
             <View style={styles.personHead}>
               <Text style={type.heading}>{user.name}</Text>
-              {user.disabled ? <Badge label="Disabled" tone="fail" /> : user.invitePending ? <Badge label="No password yet" tone="pending" /> : <Badge label="Active" tone="pass" />}
+              {user.disabled ? (
+                <Badge label="Disabled" tone="fail" />
+              ) : user.invitePending ? (
+                <Badge label="No password yet" tone="pending" />
+              ) : (
+                <Badge label="Active" tone="pass" />
+              )}
             </View>
             <Text style={type.small}>{user.email}</Text>
             {user.invitePending && !user.disabled ? <InviteControls member={user} /> : null}
@@ -93,7 +122,10 @@ export default function TeamScreen() {
                   testID={`toggle-${user.email}`}
                   onPress={() =>
                     user.disabled
-                      ? update.mutate({ id: user.id, disabled: false }, { onSuccess: (after) => setDone({ userId: after.id, text: `✓ The account of ${after.name} is enabled again.` }) })
+                      ? update.mutate(
+                          { id: user.id, disabled: false },
+                          { onSuccess: (after) => setDone({ userId: after.id, text: `✓ The account of ${after.name} is enabled again.` }) },
+                        )
                       : ask({ user, disabled: true })
                   }
                 />
@@ -104,7 +136,13 @@ export default function TeamScreen() {
         ))}
         {update.error && !change ? <Message tone="error" text={update.error.message} /> : null}
       </Card>
-      <TeamChangeDialog change={change} busy={update.isPending} error={update.error?.message ?? null} onConfirm={apply} onCancel={() => setChange(null)} />
+      <TeamChangeDialog
+        change={change}
+        busy={update.isPending}
+        error={update.error?.message ?? null}
+        onConfirm={apply}
+        onCancel={() => setChange(null)}
+      />
     </Screen>
   );
 }

@@ -49,6 +49,15 @@ export function ConfirmDialog({ visible, title, consequences, confirmLabel, tone
 
 const styles = StyleSheet.create({
   backdrop: { flex: 1, alignItems: 'center', justifyContent: 'center', padding: space.lg, backgroundColor: colors.scrim },
-  dialog: { width: '100%', maxWidth: 480, gap: space.md, padding: space.xl, borderRadius: radius.lg, backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.line },
+  dialog: {
+    width: '100%',
+    maxWidth: 480,
+    gap: space.md,
+    padding: space.xl,
+    borderRadius: radius.lg,
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+  },
   actions: { flexDirection: 'row', flexWrap: 'wrap', justifyContent: 'flex-end', gap: space.sm, paddingTop: space.sm },
 });

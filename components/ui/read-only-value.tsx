@@ -25,6 +25,15 @@ export function ReadOnlyValue({ label, value, testID }: Props) {
 
 const styles = StyleSheet.create({
   // Sized like a text field so a frozen form keeps the layout of the editable one.
-  wrap: { gap: 2, flexGrow: 1, flexShrink: 1, minWidth: 140, maxWidth: '100%', paddingBottom: space.xs, borderBottomWidth: 1, borderBottomColor: colors.line },
+  wrap: {
+    gap: 2,
+    flexGrow: 1,
+    flexShrink: 1,
+    minWidth: 140,
+    maxWidth: '100%',
+    paddingBottom: space.xs,
+    borderBottomWidth: 1,
+    borderBottomColor: colors.line,
+  },
   value: { fontFamily: fonts.medium, fontSize: 16, lineHeight: 22, color: colors.ink },
 });

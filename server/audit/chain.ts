@@ -42,7 +42,14 @@ interface AuditRow {
 // reordering any row breaks every hash after it.
 function eventHash(row: Omit<AuditRow, 'id' | 'hash'>): string {
   const material = JSON.stringify([
-    row.prev_hash, row.actor_id, row.action, row.subject_type, row.subject_id, row.dossier_id, row.payload, row.created_at,
+    row.prev_hash,
+    row.actor_id,
+    row.action,
+    row.subject_type,
+    row.subject_id,
+    row.dossier_id,
+    row.payload,
+    row.created_at,
   ]);
   return createHash('sha256').update(material).digest('hex');
 }

@@ -107,7 +107,12 @@ export async function setPasswordWithLink(ctx: AppContext, token: string, passwo
     if (!(await consumeLink(trx, ctx.clock, state.link))) throw new AppError(410, 'link_unusable', 'This link was already used.');
     await setPasswordHash(trx, state.user.id, hash);
     await ctx.sessions.endAllFor(state.user.id, trx);
-    await appendAudit(trx, { actorId: state.user.id, action: state.link.kind === 'reset' ? 'user.reset_password' : 'user.set_password', subjectType: 'user', subjectId: state.user.id });
+    await appendAudit(trx, {
+      actorId: state.user.id,
+      action: state.link.kind === 'reset' ? 'user.reset_password' : 'user.set_password',
+      subjectType: 'user',
+      subjectId: state.user.id,
+    });
   });
   return { email: state.user.email };
 }

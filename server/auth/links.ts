@@ -20,9 +20,7 @@ export async function issueLink(trx: Db, clock: Clock, userId: string, kind: Lin
   return { token, expiresAt };
 }
 
-export type LinkState =
-  | { ok: true; link: LinkRow; user: { id: string; email: string; name: string } }
-  | { ok: false; reason: string };
+export type LinkState = { ok: true; link: LinkRow; user: { id: string; email: string; name: string } } | { ok: false; reason: string };
 
 const ASK_AGAIN: Record<LinkKind, string> = {
   invite: 'Ask your administrator for a new invitation.',
@@ -34,7 +32,8 @@ export async function linkState(db: Db, clock: Clock, token: string): Promise<Li
   const link = await findLinkByTokenHash(db, hashToken(token));
   if (!link) return { ok: false, reason: 'This link is not valid. Check that it was copied whole, or ask for a new one.' };
   if (link.used_at) return { ok: false, reason: `This link was already used. Sign in with the password you chose, or: ${ASK_AGAIN[link.kind]}` };
-  if (link.revoked_at) return { ok: false, reason: `This link was withdrawn (a newer one was sent, or the invitation was revoked). ${ASK_AGAIN[link.kind]}` };
+  if (link.revoked_at)
+    return { ok: false, reason: `This link was withdrawn (a newer one was sent, or the invitation was revoked). ${ASK_AGAIN[link.kind]}` };
   if (link.expires_at <= new Date(clock.now()).toISOString()) return { ok: false, reason: `This link has expired. ${ASK_AGAIN[link.kind]}` };
   const user = await findUserById(db, link.user_id);
   if (!user || user.disabled_at) return { ok: false, reason: 'This account is disabled.' };

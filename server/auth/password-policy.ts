@@ -18,13 +18,32 @@ export interface PasswordOwner {
 /** What an attacker tries first for this account: the person's names, the e-mail's parts, the product and the organisation. */
 function userInputs(owner: PasswordOwner): string[] {
   const [local, domain = ''] = owner.email.toLowerCase().split('@');
-  const words = (s: string) => s.toLowerCase().split(/[^\p{L}\p{N}]+/u).filter((w) => w.length >= 3);
-  return [...new Set([owner.name, ...words(owner.name), owner.email, local, ...words(local), ...words(domain.replace(/\.[^.]+$/, '')), 'voltfall', owner.organisation, ...words(owner.organisation)])];
+  const words = (s: string) =>
+    s
+      .toLowerCase()
+      .split(/[^\p{L}\p{N}]+/u)
+      .filter((w) => w.length >= 3);
+  return [
+    ...new Set([
+      owner.name,
+      ...words(owner.name),
+      owner.email,
+      local,
+      ...words(local),
+      ...words(domain.replace(/\.[^.]+$/, '')),
+      'voltfall',
+      owner.organisation,
+      ...words(owner.organisation),
+    ]),
+  ];
 }
 
 // Why a guessable password is guessable, in the order a reader should hear it.
 const REASONS: Array<[test: (m: MatchExtended) => boolean, reason: string]> = [
-  [(m) => m.pattern === 'dictionary' && String(m.dictionaryName).startsWith('passwords'), 'it is, or is close to, a password on lists of common passwords'],
+  [
+    (m) => m.pattern === 'dictionary' && String(m.dictionaryName).startsWith('passwords'),
+    'it is, or is close to, a password on lists of common passwords',
+  ],
   [(m) => m.pattern === 'repeat', 'it repeats characters or a short pattern'],
   [(m) => m.pattern === 'sequence', 'it contains a run such as abcd or 1234'],
   [(m) => m.pattern === 'spatial', 'it follows a keyboard pattern'],

@@ -4,7 +4,16 @@ import type { Clock } from '../clock';
 import type { Config } from '../config';
 import type { Db } from '../db/knex';
 import type { Role } from './roles';
-import { deleteExpiredSessions, deleteSession, deleteUserSessions, findSessionWithUser, insertSession, touchSession, trimUserSessions, userSessions } from './store';
+import {
+  deleteExpiredSessions,
+  deleteSession,
+  deleteUserSessions,
+  findSessionWithUser,
+  insertSession,
+  touchSession,
+  trimUserSessions,
+  userSessions,
+} from './store';
 
 export interface SessionUser {
   id: string;

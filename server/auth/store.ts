@@ -55,7 +55,14 @@ export const deleteUserSessions = (db: Db, userId: string) => db('session').wher
 
 /** Ends the user's oldest sessions so that at most `keep` remain. */
 export async function trimUserSessions(db: Db, userId: string, keep: number): Promise<number> {
-  const keepIds = db('session').where({ user_id: userId }).orderBy([{ column: 'created_at', order: 'desc' }, { column: 'id', order: 'desc' }]).limit(keep).select('id');
+  const keepIds = db('session')
+    .where({ user_id: userId })
+    .orderBy([
+      { column: 'created_at', order: 'desc' },
+      { column: 'id', order: 'desc' },
+    ])
+    .limit(keep)
+    .select('id');
   return db('session').where({ user_id: userId }).whereNotIn('id', keepIds).delete();
 }
 
@@ -78,14 +85,18 @@ export const findBuckets = (db: Db, keys: string[]) => db<BucketRow>('throttle_b
  * instead of reading a count that is about to change.
  */
 export const ensureBuckets = (db: Db, keys: string[], now: number) =>
-  db('throttle_bucket').insert(keys.map((key) => ({ key, failures: 0, last_failure_at: now }))).onConflict('key').ignore();
+  db('throttle_bucket')
+    .insert(keys.map((key) => ({ key, failures: 0, last_failure_at: now })))
+    .onConflict('key')
+    .ignore();
 
 export const saveBucket = (db: Db, row: BucketRow) => db('throttle_bucket').insert(row).onConflict('key').merge();
 
 export const deleteBucket = (db: Db, key: string) => db('throttle_bucket').where({ key }).delete();
 
 /** Gives one counted attempt back to each key (one statement, so nothing can interleave). */
-export const giveBackAttempt = (db: Db, keys: string[]) => db('throttle_bucket').whereIn('key', keys).where('failures', '>', 0).decrement('failures', 1);
+export const giveBackAttempt = (db: Db, keys: string[]) =>
+  db('throttle_bucket').whereIn('key', keys).where('failures', '>', 0).decrement('failures', 1);
 
 export const deleteBucketsOlderThan = (db: Db, before: number) => db('throttle_bucket').where('last_failure_at', '<', before).delete();
 
@@ -109,7 +120,8 @@ export const findLinkByTokenHash = (db: Db, tokenHash: string) => db<LinkRow>('i
 export const insertLink = (db: Db, row: Omit<LinkRow, 'id' | 'used_at' | 'revoked_at'>) => db('invite').insert(row);
 
 /** Marks a link used; the `used_at IS NULL` guard lets exactly one of two concurrent uses win. */
-export const claimLink = (db: Db, id: number, at: string) => db('invite').where({ id }).whereNull('used_at').whereNull('revoked_at').update({ used_at: at });
+export const claimLink = (db: Db, id: number, at: string) =>
+  db('invite').where({ id }).whereNull('used_at').whereNull('revoked_at').update({ used_at: at });
 
 /** Withdraws every open link of a user (of one kind, or all kinds). */
 export function revokeOpenLinks(db: Db, userId: string, at: string, kind?: LinkKind) {

@@ -56,8 +56,19 @@ export class Throttle {
   reserve(keys: ThrottleKey[]): Promise<ThrottleVerdict> {
     return this.db.transaction(async (trx) => {
       const now = this.clock.now();
-      await ensureBuckets(trx, keys.map((k) => k.key), now);
-      const stored = new Map((await findBuckets(trx, keys.map((k) => k.key))).map((b) => [b.key, b]));
+      await ensureBuckets(
+        trx,
+        keys.map((k) => k.key),
+        now,
+      );
+      const stored = new Map(
+        (
+          await findBuckets(
+            trx,
+            keys.map((k) => k.key),
+          )
+        ).map((b) => [b.key, b]),
+      );
       const counted = keys.map(({ key, rule }) => {
         const bucket = stored.get(key);
         const failures = bucket && now - bucket.last_failure_at < rule.forgetMs ? bucket.failures : 0;
@@ -75,7 +86,10 @@ export class Throttle {
   async succeeded(keys: ThrottleKey[]): Promise<void> {
     const [account, ...others] = keys;
     await deleteBucket(this.db, account.key);
-    await giveBackAttempt(this.db, others.map((k) => k.key));
+    await giveBackAttempt(
+      this.db,
+      others.map((k) => k.key),
+    );
   }
 
   /** Forgets buckets quiet for longer than any rule remembers; the periodic sweep calls it. */
@@ -92,5 +106,7 @@ export function clientAddress(req: Request): string {
 
 export function tooManyAttempts(retryAfterMs: number, what = 'sign-in attempts'): AppError {
   const minutes = Math.max(1, Math.ceil(retryAfterMs / MINUTE));
-  return new AppError(429, 'too_many_attempts', `Too many ${what}. Wait ${minutes} minute${minutes === 1 ? '' : 's'}, then try again.`, undefined, { headers: { 'Retry-After': String(Math.ceil(retryAfterMs / 1000)) } });
+  return new AppError(429, 'too_many_attempts', `Too many ${what}. Wait ${minutes} minute${minutes === 1 ? '' : 's'}, then try again.`, undefined, {
+    headers: { 'Retry-After': String(Math.ceil(retryAfterMs / 1000)) },
+  });
 }

@@ -36,25 +36,25 @@ const isBusy = (err: unknown) => (err as { code?: string } | null)?.code === 'SQ
  */
 function sqliteClient(busyTimeoutMs: number) {
   class ImmediateTransaction extends SqliteTransaction {
-  async begin(conn: RawConnection) {
-    const deadline = Date.now() + busyTimeoutMs;
-    conn.pragma('busy_timeout = 0');
-    try {
-      // Attempts go straight to the connection: a failed query through Knex's transaction ends the transaction.
-      while (Date.now() < deadline) {
-        try {
-          return await this.trxClient.query(conn, 'BEGIN IMMEDIATE;');
-        } catch (err) {
-          if (!isBusy(err)) break;
-          await new Promise((resolve) => setTimeout(resolve, 1 + Math.random() * 9));
+    async begin(conn: RawConnection) {
+      const deadline = Date.now() + busyTimeoutMs;
+      conn.pragma('busy_timeout = 0');
+      try {
+        // Attempts go straight to the connection: a failed query through Knex's transaction ends the transaction.
+        while (Date.now() < deadline) {
+          try {
+            return await this.trxClient.query(conn, 'BEGIN IMMEDIATE;');
+          } catch (err) {
+            if (!isBusy(err)) break;
+            await new Promise((resolve) => setTimeout(resolve, 1 + Math.random() * 9));
+          }
         }
+        // The last try through Knex, which rejects the transaction if it fails too.
+        return await this.query(conn, 'BEGIN IMMEDIATE;');
+      } finally {
+        conn.pragma(`busy_timeout = ${busyTimeoutMs}`);
       }
-      // The last try through Knex, which rejects the transaction if it fails too.
-      return await this.query(conn, 'BEGIN IMMEDIATE;');
-    } finally {
-      conn.pragma(`busy_timeout = ${busyTimeoutMs}`);
     }
-  }
   }
 
   return class SqliteClient extends BetterSqlite3Client {

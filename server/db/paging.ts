@@ -17,7 +17,9 @@ export function decodeCursor(text: string | undefined): Cursor | null {
   try {
     return cursorSchema.parse(JSON.parse(Buffer.from(text, 'base64url').toString('utf8')));
   } catch {
-    throw new AppError(400, 'invalid_input', 'The list position is not valid; start again from the first page.', [{ path: 'cursor', message: 'not a cursor this list gave out' }]);
+    throw new AppError(400, 'invalid_input', 'The list position is not valid; start again from the first page.', [
+      { path: 'cursor', message: 'not a cursor this list gave out' },
+    ]);
   }
 }
 

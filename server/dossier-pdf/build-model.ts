@@ -33,7 +33,9 @@ export async function buildPdfModel(
   const rev = await loadRevision(db, revisionId);
   const dossier = await loadDossier(db, rev.dossierId);
   const product = await db('product').where({ id: dossier.productId }).first();
-  const previousId = rev.createdFrom ?? (await db('revision').where({ dossier_id: rev.dossierId }).where('number', '<', rev.number).orderBy('number', 'desc').first('id'))?.id;
+  const previousId =
+    rev.createdFrom ??
+    (await db('revision').where({ dossier_id: rev.dossierId }).where('number', '<', rev.number).orderBy('number', 'desc').first('id'))?.id;
   const previous = previousId ? await loadRevision(db, previousId) : null;
   const diff = previous ? diffRevisions(rev, previous) : null;
 
@@ -89,7 +91,14 @@ export async function buildPdfModel(
     diff: diff
       ? {
           against: { id: diff.against.id, number: diff.against.number },
-          inputs: diff.inputs.map((c) => ({ path: `design.${c.path}`, label: c.label, from: c.fromValue, to: c.toValue, unit: c.unit, changePct: c.changePct })),
+          inputs: diff.inputs.map((c) => ({
+            path: `design.${c.path}`,
+            label: c.label,
+            from: c.fromValue,
+            to: c.toValue,
+            unit: c.unit,
+            changePct: c.changePct,
+          })),
           checks: diff.checks.map((c) => ({
             id: c.id,
             label: c.label,
@@ -122,7 +131,9 @@ async function auditOf(db: Knex | Knex.Transaction, dossierId: number): Promise<
   const chain = await readAuditChain(db as Knex, dossierId);
   const actorIds = [...new Set(chain.events.map((e) => e.actorId).filter((id): id is string => id !== null))];
   const names = new Map<string, string>((await db('user').whereIn('id', actorIds).select('id', 'name')).map((u) => [u.id, u.name]));
-  const numbers = new Map<string, number>((await db('revision').where({ dossier_id: dossierId }).select('id', 'number')).map((r) => [String(r.id), r.number]));
+  const numbers = new Map<string, number>(
+    (await db('revision').where({ dossier_id: dossierId }).select('id', 'number')).map((r) => [String(r.id), r.number]),
+  );
   const head = await db('audit_event').orderBy('id', 'desc').first('hash');
   const events: AuditEntry[] = chain.events.map((e) => {
     const payload = (e.payload ?? {}) as Record<string, unknown>;

@@ -38,8 +38,7 @@ function axisPrefix(maxAbs: number): { scale: number; prefix: string } {
 // Typographic minus, as in the rest of the dossier.
 const tickText = (value: number, scale: number) => String(Number((value / scale).toPrecision(6))).replace('-', '−');
 
-const escapeXml = (text: string) =>
-  text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+const escapeXml = (text: string) => text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 
 const num = (value: number) => value.toFixed(2);
 
@@ -141,9 +140,7 @@ export function decayChartSvg(input: DecayChartInput): string {
     const pts = perColumn(inside.map((p) => [clampX(p.t), clampY(p.v)] as const)).map(([px, py]) => `${num(px)},${num(py)}`);
     if (pts.length < 2) continue;
     const dash = s.dash ? ` stroke-dasharray="${s.dash}"` : '';
-    parts.push(
-      `<polyline points="${pts.join(' ')}" fill="none" stroke="${s.color}" stroke-width="${s.width}" stroke-linejoin="round"${dash}/>`,
-    );
+    parts.push(`<polyline points="${pts.join(' ')}" fill="none" stroke="${s.color}" stroke-width="${s.width}" stroke-linejoin="round"${dash}/>`);
   }
 
   const legendTop = plotH + 36;

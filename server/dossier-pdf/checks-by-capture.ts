@@ -25,10 +25,12 @@ export function captureOf(check: { id: string; evidenceSha256?: string; label?: 
   if (suffix && /^[0-9a-f]{6,64}$/.test(suffix)) return known.find((e) => e.sha256.startsWith(suffix))?.sha256 ?? null;
   const label = check.label;
   if (!label || !checkKind(check.id).startsWith('measured-')) return null;
-  return known.find((e) => {
-    const name = e.name ?? e.originalName;
-    return !!name && label.includes(`(${name})`);
-  })?.sha256 ?? null;
+  return (
+    known.find((e) => {
+      const name = e.name ?? e.originalName;
+      return !!name && label.includes(`(${name})`);
+    })?.sha256 ?? null
+  );
 }
 
 export const isEvidenceCheck = (check: CheckWithEvidence) => !!check.evidenceSha256 || checkKind(check.id).startsWith('measured-');

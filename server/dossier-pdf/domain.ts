@@ -79,7 +79,11 @@ export class DossierPdfService {
     return this.pool.close();
   }
 
-  private async prepare(revisionId: number, model: DossierPdfModel, setup: Awaited<ReturnType<AppContext['signing']['setup']>>): Promise<PreparedDossier> {
+  private async prepare(
+    revisionId: number,
+    model: DossierPdfModel,
+    setup: Awaited<ReturnType<AppContext['signing']['setup']>>,
+  ): Promise<PreparedDossier> {
     const sign: SignOptions = { setup, reason: `Approval of revision ${model.revision.number}`, location: this.ctx.config.organisation };
     let pdf: Buffer;
     try {
@@ -87,7 +91,11 @@ export class DossierPdfService {
     } catch (error) {
       // The time-stamping authority or a CRL server may be away; nothing has been recorded yet.
       this.ctx.log.error({ err: error, revisionId }, 'signing the dossier failed');
-      throw new AppError(503, 'signing_unavailable', `The dossier could not be signed, so nothing was recorded: ${(error as Error).message} Try again later.`);
+      throw new AppError(
+        503,
+        'signing_unavailable',
+        `The dossier could not be signed, so nothing was recorded: ${(error as Error).message} Try again later.`,
+      );
     }
     const sha256 = createHash('sha256').update(pdf).digest('hex');
     const temp = join(this.dir, tempFileName());

@@ -48,7 +48,11 @@ export function heading(text: string, newPage = false): Content {
 
 /** A sub-heading, listed indented in the table of contents when `listed`. */
 export const subheading = (text: string, listed = false): Content =>
-  lead({ text, style: 'h2', ...(listed ? { tocItem: true, tocStyle: { fontSize: 8.5, color: COLOURS.muted }, tocMargin: [14, 1, 0, 0] } : {}) } as Block);
+  lead({
+    text,
+    style: 'h2',
+    ...(listed ? { tocItem: true, tocStyle: { fontSize: 8.5, color: COLOURS.muted }, tocMargin: [14, 1, 0, 0] } : {}),
+  } as Block);
 
 export const caption = (text: string): Content => lead({ text, color: COLOURS.muted, fontSize: 8, margin: [0, 0, 0, 4] });
 
@@ -131,10 +135,7 @@ export function keepWithHeadings(items: readonly Content[]): Content[] {
     const pageBreak = leads.some((l) => typeof l === 'object' && NEW_PAGE.has(l)) ? { pageBreak: 'before' as const } : {};
     const spec = typeof item === 'object' ? TABLES.get(item) : undefined;
     if (spec && spec.rows.length > KEEP_WHOLE_ROWS) {
-      out.push(
-        { stack: [...leads, tablePart(spec, 0, LEAD_ROWS)], unbreakable: true, ...pageBreak },
-        tablePart(spec, LEAD_ROWS, spec.rows.length),
-      );
+      out.push({ stack: [...leads, tablePart(spec, 0, LEAD_ROWS)], unbreakable: true, ...pageBreak }, tablePart(spec, LEAD_ROWS, spec.rows.length));
     } else {
       out.push({ stack: [...leads, item], unbreakable: true, ...pageBreak });
     }

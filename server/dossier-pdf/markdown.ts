@@ -86,7 +86,10 @@ function block(t: Token): Content[] {
     case 'code':
       return [
         {
-          table: { widths: ['*'], body: [[{ text: (t as Tokens.Code).text, font: MONO, fontSize: 7.5, preserveLeadingSpaces: true, fillColor: COLOURS.band }]] },
+          table: {
+            widths: ['*'],
+            body: [[{ text: (t as Tokens.Code).text, font: MONO, fontSize: 7.5, preserveLeadingSpaces: true, fillColor: COLOURS.band }]],
+          },
           layout: 'noBorders',
           margin: [0, 0, 0, 4],
           unbreakable: shortEnough(t.raw),

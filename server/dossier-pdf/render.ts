@@ -147,9 +147,7 @@ function documentDefinition(model: DossierPdfModel, signingTime: Date): TDocumen
             { text: `Status: ${STATUS_SHORT[revision.status]}`, fontSize: 7, bold: true, alignment: 'right', width: 'auto' },
           ],
         },
-        ...(approved
-          ? []
-          : [{ text: NOT_APPROVED_MARK, fontSize: 9, bold: true, color: '#b71c1c', margin: [0, 3, 0, 0] } as Content]),
+        ...(approved ? [] : [{ text: NOT_APPROVED_MARK, fontSize: 9, bold: true, color: '#b71c1c', margin: [0, 3, 0, 0] } as Content]),
         { canvas: [{ type: 'line', x1: 0, y1: 3, x2: CONTENT_WIDTH, y2: 3, lineWidth: 0.5, lineColor: currentPage === 1 ? '#ffffff' : '#c8c8c8' }] },
       ],
     }),
@@ -160,15 +158,17 @@ function documentDefinition(model: DossierPdfModel, signingTime: Date): TDocumen
         ...(currentPage === 1 ? [] : [{ text: CAUTION_LINE, fontSize: 6.5, color: '#b71c1c', margin: [0, 0, 0, 3] } as Content]),
         {
           columns: [
-            { text: `${model.organisation} · generated ${timestamp(model.generatedAt)} · content hash ${revision.contentHash.slice(0, 16)}…`, fontSize: 7, color: '#5f6368' },
+            {
+              text: `${model.organisation} · generated ${timestamp(model.generatedAt)} · content hash ${revision.contentHash.slice(0, 16)}…`,
+              fontSize: 7,
+              color: '#5f6368',
+            },
             { text: `Page ${currentPage} of ${pageCount}`, fontSize: 7.5, alignment: 'right', width: 'auto' },
           ],
         },
       ],
     }),
-    ...(approved
-      ? {}
-      : { watermark: { text: NOT_APPROVED_MARK, color: '#b71c1c', opacity: 0.12, bold: true, font: FONT, fontSize: 34 } }),
+    ...(approved ? {} : { watermark: { text: NOT_APPROVED_MARK, color: '#b71c1c', opacity: 0.12, bold: true, font: FONT, fontSize: 34 } }),
     content,
   };
 }

@@ -74,7 +74,12 @@ const ACTIONS: Record<string, string> = {
 };
 
 /** One audit event as a sentence: "Ilse Marchetti approved revision 2". */
-export function auditSentence(event: { actor: string | null; action: string; revisionNumber: number | null; payload: Record<string, unknown> }): string {
+export function auditSentence(event: {
+  actor: string | null;
+  action: string;
+  revisionNumber: number | null;
+  payload: Record<string, unknown>;
+}): string {
   const who = event.actor ?? 'The system';
   const template = ACTIONS[event.action];
   if (!template) return `${who}: ${event.action}`;

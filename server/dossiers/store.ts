@@ -45,9 +45,11 @@ function whereDossiers(query: Knex.QueryBuilder, filter: DossierListQuery, audie
   } else if (filter.status !== undefined) {
     // Driven from the revision side: the status index finds the candidates, the unique (dossier, number)
     // index keeps only each dossier's latest, so the cost follows the matches, not the dossier count.
-    query.whereIn(
-      'dossier.id',
-      (sub) => sub.from('revision as r').select('r.dossier_id').where('r.status', filter.status!)
+    query.whereIn('dossier.id', (sub) =>
+      sub
+        .from('revision as r')
+        .select('r.dossier_id')
+        .where('r.status', filter.status!)
         .whereNotExists((later) => later.from('revision as l').whereRaw('l.dossier_id = r.dossier_id').andWhereRaw('l.number > r.number')),
     );
   }
@@ -69,8 +71,17 @@ export async function listDossiers(db: Db, filter: DossierListQuery, audience: D
     .leftJoin('revision as latest', 'latest.id', db.raw(audience.approvedOnly ? LATEST_APPROVED : LATEST_REVISION));
   const page = whereDossiers(listed, filter, audience)
     .select(
-      'dossier.id', 'dossier.product_id', 'dossier.title', 'dossier.requirement', 'product.name as product_name', 'product.model_number as product_model',
-      'latest.id as latest_id', 'latest.number as latest_number', 'latest.status as latest_status', 'latest.updated_at as latest_updated_at', 'latest.verdict as latest_verdict',
+      'dossier.id',
+      'dossier.product_id',
+      'dossier.title',
+      'dossier.requirement',
+      'product.name as product_name',
+      'product.model_number as product_model',
+      'latest.id as latest_id',
+      'latest.number as latest_number',
+      'latest.status as latest_status',
+      'latest.updated_at as latest_updated_at',
+      'latest.verdict as latest_verdict',
     )
     .orderBy('dossier.id', 'desc')
     .limit(filter.limit + 1);
@@ -78,7 +89,10 @@ export async function listDossiers(db: Db, filter: DossierListQuery, audience: D
   if (after) page.where('dossier.id', '<', after[1]);
   // The count joins only what its filters need, so the unfiltered total is a plain count.
   const counted = filter.q !== undefined ? db('dossier').join('product', 'product.id', 'dossier.product_id') : db('dossier');
-  const [rows, count]: [DossierRow[], { n: number } | undefined] = await Promise.all([page, whereDossiers(counted, filter, audience).count({ n: '*' }).first()]);
+  const [rows, count]: [DossierRow[], { n: number } | undefined] = await Promise.all([
+    page,
+    whereDossiers(counted, filter, audience).count({ n: '*' }).first(),
+  ]);
   return toPage(rows, filter.limit, Number(count?.n ?? 0), (r) => [r.id, r.id], dossierView);
 }
 
@@ -100,9 +114,18 @@ export async function dossierExists(db: Db, id: number): Promise<boolean> {
   return (await db('dossier').where({ id }).first('id')) !== undefined;
 }
 
-export async function insertDossier(trx: Knex.Transaction, row: { productId: number; title: string; requirement: Requirement; createdBy: string }): Promise<number> {
+export async function insertDossier(
+  trx: Knex.Transaction,
+  row: { productId: number; title: string; requirement: Requirement; createdBy: string },
+): Promise<number> {
   const [inserted] = await trx('dossier')
-    .insert({ product_id: row.productId, title: row.title, requirement: JSON.stringify(row.requirement), created_by: row.createdBy, created_at: new Date().toISOString() })
+    .insert({
+      product_id: row.productId,
+      title: row.title,
+      requirement: JSON.stringify(row.requirement),
+      created_by: row.createdBy,
+      created_at: new Date().toISOString(),
+    })
     .returning('id');
   return inserted.id as number;
 }
@@ -113,7 +136,12 @@ export async function insertDossier(trx: Knex.Transaction, row: { productId: num
  */
 export async function dossierWithRevisions(db: Db, id: number, audience: DossierAudience = { approvedOnly: false }) {
   const dossier = await loadDossier(db, id);
-  const revisions = await revisionSummaries(db, { dossierId: id, ...(audience.approvedOnly ? { status: ['approved'] as const } : {}) }, 'number-desc', null);
+  const revisions = await revisionSummaries(
+    db,
+    { dossierId: id, ...(audience.approvedOnly ? { status: ['approved'] as const } : {}) },
+    'number-desc',
+    null,
+  );
   if (audience.approvedOnly && revisions.items.length === 0) throw notFound('Dossier');
   return { ...dossier, revisions: revisions.items };
 }

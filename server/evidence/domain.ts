@@ -15,7 +15,10 @@ import { fileIsReferenced, markFileReleased } from './store';
 export const uploadFieldsSchema = z.object({
   kind: z.enum(['waveform', 'image', 'datasheet', 'report', 'other'], 'Choose waveform, image, datasheet, report or other.'),
   channel: z.preprocess((v) => (v === '' || v === undefined ? undefined : /^\d+$/.test(String(v)) ? Number(v) : v), channelRefSchema.optional()),
-  markerChannel: z.preprocess((v) => (v === '' || v === undefined ? undefined : /^\d+$/.test(String(v)) ? Number(v) : v), channelRefSchema.optional()),
+  markerChannel: z.preprocess(
+    (v) => (v === '' || v === undefined ? undefined : /^\d+$/.test(String(v)) ? Number(v) : v),
+    channelRefSchema.optional(),
+  ),
   t0: z.preprocess((v) => (v === '' || v === undefined ? undefined : Number(v)), z.number().finite('t0 must be a number in seconds').optional()),
   /** Input resistance of the measuring chain across the capacitor, Ω: the measured τ is corrected for it. */
   probeResistance: probeResistanceFieldSchema,
@@ -28,7 +31,10 @@ export const uploadFieldsSchema = z.object({
       .optional(),
   ),
   // Optional for uploads, checked when sent: the revision version the uploader last read.
-  version: z.preprocess((v) => (v === '' || v === undefined ? undefined : typeof v === 'string' && /^[1-9][0-9]{0,15}$/.test(v) ? Number(v) : v), versionSchema.optional()),
+  version: z.preprocess(
+    (v) => (v === '' || v === undefined ? undefined : typeof v === 'string' && /^[1-9][0-9]{0,15}$/.test(v) ? Number(v) : v),
+    versionSchema.optional(),
+  ),
 });
 
 export type StoredEvidence = EvidenceRecord & { revisionVersion: number };
@@ -60,7 +66,9 @@ export async function attachEvidence(
     const { kind, channel, markerChannel, t0, probeResistance, scale, version } = parsed.data;
     const limit = kind === 'waveform' ? ctx.config.uploadLimits.waveformBytes : ctx.config.uploadLimits.otherBytes;
     if (upload.size > limit) {
-      throw new AppError(413, 'too_large', `A ${kind} file may be at most ${Math.round(limit / 1024 / 1024)} MB.`, [{ path: 'file', message: 'over the size limit' }]);
+      throw new AppError(413, 'too_large', `A ${kind} file may be at most ${Math.round(limit / 1024 / 1024)} MB.`, [
+        { path: 'file', message: 'over the size limit' },
+      ]);
     }
     if (upload.size === 0) throw new AppError(422, 'empty_file', 'The file is empty.', [{ path: 'file', message: 'empty' }]);
     const name = sanitiseFileName(upload.originalName);
@@ -72,13 +80,21 @@ export async function attachEvidence(
     assertVersion(rev, version);
     const dossier = await loadDossier(ctx.db, rev.dossierId);
     let analysis: WaveformAnalysis | null = null;
-    const options = analysisOptionsSchema.parse({ safeVoltage: dossier.requirement.safeVoltage, maxTime: dossier.requirement.maxTime, channel, markerChannel, t0, scale });
+    const options = analysisOptionsSchema.parse({
+      safeVoltage: dossier.requirement.safeVoltage,
+      maxTime: dossier.requirement.maxTime,
+      channel,
+      markerChannel,
+      t0,
+      scale,
+    });
     if (kind === 'waveform') {
       try {
         // Kept with the analysis so the measured checks can refer the capture to the unloaded circuit.
         analysis = { ...(await analyseCaptureFile(upload.path, options)), probeResistance: probeResistance ?? null };
       } catch (err) {
-        if (err instanceof WaveformError) throw new AppError(422, `capture_${err.code.toLowerCase()}`, err.message, [{ path: 'file', message: err.message }]);
+        if (err instanceof WaveformError)
+          throw new AppError(422, `capture_${err.code.toLowerCase()}`, err.message, [{ path: 'file', message: err.message }]);
         throw err;
       }
     }

@@ -20,11 +20,17 @@ const FORM_OVERHEAD = 64 * 1024;
 function uploadFault(err: unknown): unknown {
   if (err instanceof multer.MulterError || err instanceof AppError || storageFault(err)) return err;
   const reason = err instanceof Error ? err.message : String(err);
-  return new AppError(400, 'invalid_upload', `The upload is not a complete multipart form (${reason}); nothing was stored.`, [{ path: 'file', message: reason }]);
+  return new AppError(400, 'invalid_upload', `The upload is not a complete multipart form (${reason}); nothing was stored.`, [
+    { path: 'file', message: reason },
+  ]);
 }
 
 /** An ASCII stand-in for old clients: accents dropped, anything else outside printable ASCII as "_". */
-const asciiFallback = (name: string) => name.normalize('NFKD').replace(/[\u0300-\u036f]/g, '').replace(/[^\x20-\x7e]/gu, '_');
+const asciiFallback = (name: string) =>
+  name
+    .normalize('NFKD')
+    .replace(/[\u0300-\u036f]/g, '')
+    .replace(/[^\x20-\x7e]/gu, '_');
 
 export function evidenceRoutes(ctx: AppContext): Router {
   const router = Router();
@@ -36,7 +42,8 @@ export function evidenceRoutes(ctx: AppContext): Router {
     defParamCharset: 'utf8',
     limits: { fileSize: maxBytes, files: 1, fields: 10, fieldSize: 1024, parts: 12 },
   });
-  const receive = (req: Request, res: Response, next: NextFunction) => upload.single('file')(req, res, (err?: unknown) => next(err ? uploadFault(err) : undefined));
+  const receive = (req: Request, res: Response, next: NextFunction) =>
+    upload.single('file')(req, res, (err?: unknown) => next(err ? uploadFault(err) : undefined));
 
   // Refuse what cannot be accepted before reading the body: too large by its own declaration, or a
   // revision that is not this user's draft.
@@ -44,7 +51,9 @@ export function evidenceRoutes(ctx: AppContext): Router {
     try {
       const declared = Number(req.headers['content-length'] ?? 0);
       if (declared > maxBytes + FORM_OVERHEAD) {
-        throw new AppError(413, 'too_large', `The upload is larger than the ${Math.round(maxBytes / 1024 / 1024)} MB limit.`, [{ path: 'file', message: 'over the size limit' }]);
+        throw new AppError(413, 'too_large', `The upload is larger than the ${Math.round(maxBytes / 1024 / 1024)} MB limit.`, [
+          { path: 'file', message: 'over the size limit' },
+        ]);
       }
       await assertMayAttach(ctx, currentUser(req), parseId(req.params.id));
       next();
@@ -58,12 +67,23 @@ export function evidenceRoutes(ctx: AppContext): Router {
   router.post('/revisions/:id/evidence', allow('engineer', 'admin'), precheck, receive, async (req, res) => {
     const file = req.file as (Express.Multer.File & HashedFile) | undefined;
     if (!file) throw new AppError(400, 'invalid_input', 'Attach a file in the "file" field.', [{ path: 'file', message: 'missing' }]);
-    const record = await attachEvidence(ctx, store, currentUser(req), parseId(req.params.id), { path: file.path, size: file.size, sha256: file.sha256, originalName: file.originalname }, req.body);
+    const record = await attachEvidence(
+      ctx,
+      store,
+      currentUser(req),
+      parseId(req.params.id),
+      { path: file.path, size: file.size, sha256: file.sha256, originalName: file.originalname },
+      req.body,
+    );
     res.status(201).json(record);
   });
 
   router.get('/evidence/:id/file', allow(), async (req, res, next) => {
-    const row = await ctx.db('evidence').join('revision', 'revision.id', 'evidence.revision_id').where('evidence.id', parseId(req.params.id)).first('evidence.*', 'revision.status as revision_status');
+    const row = await ctx
+      .db('evidence')
+      .join('revision', 'revision.id', 'evidence.revision_id')
+      .where('evidence.id', parseId(req.params.id))
+      .first('evidence.*', 'revision.status as revision_status');
     if (!row) throw notFound('Evidence');
     assertMaySee(currentUser(req), row.revision_status, 'Evidence');
     // Always a download, typed from the bytes sniffed at upload (never from the name), and never

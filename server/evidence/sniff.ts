@@ -16,8 +16,17 @@ const ACCEPTED: Record<Exclude<EvidenceKind, 'other'>, { mimes: string[]; words:
 // What a download may be labelled as: types a browser shows inertly or hands to a viewer. Everything
 // else — HTML, SVG, JavaScript, XML, unknown — is served as application/octet-stream.
 const SERVED_TYPES = new Set([
-  'text/plain', 'text/csv', 'text/tab-separated-values', 'application/pdf',
-  'image/png', 'image/jpeg', 'image/gif', 'image/webp', 'image/tiff', 'image/bmp', 'application/zip',
+  'text/plain',
+  'text/csv',
+  'text/tab-separated-values',
+  'application/pdf',
+  'image/png',
+  'image/jpeg',
+  'image/gif',
+  'image/webp',
+  'image/tiff',
+  'image/bmp',
+  'application/zip',
 ]);
 
 /** The media type a stored file is served with: its sniffed type when on the allow-list, else a plain byte stream. */
@@ -62,7 +71,13 @@ export async function sniffMediaType(path: string, kind: EvidenceKind, originalN
       { path: 'file', message: `expected ${rule.words}` },
     ]);
   }
-  return kind === 'waveform' ? (/\.tsv$/i.test(originalName) ? 'text/tab-separated-values' : /\.csv$/i.test(originalName) ? 'text/csv' : 'text/plain') : mime;
+  return kind === 'waveform'
+    ? /\.tsv$/i.test(originalName)
+      ? 'text/tab-separated-values'
+      : /\.csv$/i.test(originalName)
+        ? 'text/csv'
+        : 'text/plain'
+    : mime;
 }
 
 /**
@@ -72,7 +87,10 @@ export async function sniffMediaType(path: string, kind: EvidenceKind, originalN
 export function sanitiseFileName(name: string): string {
   const base = name.normalize('NFC').split(/[\\/]/).pop() ?? '';
   // eslint-disable-next-line no-control-regex -- control characters are exactly what is removed.
-  const clean = base.replace(/[\u0000-\u001f\u007f\u202a-\u202e\u2066-\u2069]/g, '').replace(/^\.+/, '').trim();
+  const clean = base
+    .replace(/[\u0000-\u001f\u007f\u202a-\u202e\u2066-\u2069]/g, '')
+    .replace(/^\.+/, '')
+    .trim();
   // Cut by code points so a character outside the BMP is never split in half.
   return [...clean].slice(0, 200).join('').trim() || 'unnamed';
 }

@@ -18,9 +18,14 @@ export async function referencedSignedDossiers(trx: Knex.Transaction): Promise<S
 
 /** When each unreferenced file was released by a draft (its grace period runs from then). */
 export async function fileReleases(trx: Knex.Transaction): Promise<Map<string, string>> {
-  return new Map((await trx('evidence_release').select('sha256', 'released_at')).map((r: { sha256: string; released_at: string }) => [r.sha256, r.released_at]));
+  return new Map(
+    (await trx('evidence_release').select('sha256', 'released_at')).map((r: { sha256: string; released_at: string }) => [r.sha256, r.released_at]),
+  );
 }
 
 export async function forgetReleases(trx: Knex.Transaction, sha256s: string[]): Promise<void> {
-  for (let i = 0; i < sha256s.length; i += 500) await trx('evidence_release').whereIn('sha256', sha256s.slice(i, i + 500)).delete();
+  for (let i = 0; i < sha256s.length; i += 500)
+    await trx('evidence_release')
+      .whereIn('sha256', sha256s.slice(i, i + 500))
+      .delete();
 }

@@ -75,11 +75,15 @@ export class Housekeeping {
       // Releases of files that are gone, or in use again, have nothing left to time.
       const gone = new Set(orphans);
       const present = new Set(evidenceFiles);
-      await forgetReleases(trx, [...released.keys()].filter((f) => gone.has(f) || used.has(f) || !present.has(f)));
+      await forgetReleases(
+        trx,
+        [...released.keys()].filter((f) => gone.has(f) || used.has(f) || !present.has(f)),
+      );
       return { orphans, unsigned };
     });
     const report = { tempFiles: temp.length, orphanEvidence: removed.orphans.length, orphanSignedDossiers: removed.unsigned.length };
-    if (report.tempFiles || report.orphanEvidence || report.orphanSignedDossiers) this.log.info(report, 'removed leftover files from the data folder');
+    if (report.tempFiles || report.orphanEvidence || report.orphanSignedDossiers)
+      this.log.info(report, 'removed leftover files from the data folder');
     return report;
   }
 }

@@ -21,7 +21,11 @@ export async function startFakeSmtp(db: Knex, port: number): Promise<FakeSmtp> {
     onData(stream, _session, callback) {
       simpleParser(stream)
         .then(async (mail) => {
-          const to = [mail.to].flat().filter(Boolean).map((a) => (a && 'text' in a ? a.text : '')).join(', ');
+          const to = [mail.to]
+            .flat()
+            .filter(Boolean)
+            .map((a) => (a && 'text' in a ? a.text : ''))
+            .join(', ');
           await db('mail_outbox').insert({
             from: mail.from?.text ?? '',
             to,

@@ -5,12 +5,7 @@ import { BackgroundLoop } from '../background';
 import { renderMail, type TemplateName } from './templates';
 
 /** Queues a message in the same transaction as the change it reports; the sender delivers it later. */
-export async function queueMail(
-  trx: Knex | Knex.Transaction,
-  to: string,
-  template: TemplateName,
-  data: Record<string, unknown>,
-): Promise<void> {
+export async function queueMail(trx: Knex | Knex.Transaction, to: string, template: TemplateName, data: Record<string, unknown>): Promise<void> {
   const mail = renderMail(template, data);
   const now = new Date().toISOString();
   await trx('mail_queue').insert({ to, ...mail, status: 'pending', attempts: 0, next_attempt_at: now, created_at: now });
@@ -78,12 +73,14 @@ export class MailSender {
         const attempts = mail.attempts + 1;
         const delayMs = Math.min(2 ** attempts * 1_000, 15 * 60_000);
         this.log.warn({ err, mailId: mail.id, attempts }, 'mail delivery failed; will retry');
-        await this.db('mail_queue').where({ id: mail.id }).update({
-          attempts,
-          status: attempts >= MAX_ATTEMPTS ? 'failed' : 'pending',
-          last_error: String((err as Error).message ?? err),
-          next_attempt_at: new Date(Date.now() + delayMs).toISOString(),
-        });
+        await this.db('mail_queue')
+          .where({ id: mail.id })
+          .update({
+            attempts,
+            status: attempts >= MAX_ATTEMPTS ? 'failed' : 'pending',
+            last_error: String((err as Error).message ?? err),
+            next_attempt_at: new Date(Date.now() + delayMs).toISOString(),
+          });
         continue;
       }
       this.delivered.add(mail.id);

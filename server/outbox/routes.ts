@@ -7,11 +7,31 @@ export function outboxRoutes(ctx: AppContext): Router {
   const router = Router();
   router.get('/', allow('admin'), async (_req, res) => {
     const received = await ctx.db('mail_outbox').orderBy('id', 'desc').limit(200);
-    const queued = await ctx.db('mail_queue').whereNot({ status: 'sent' }).orderBy('id', 'desc').limit(200)
+    const queued = await ctx
+      .db('mail_queue')
+      .whereNot({ status: 'sent' })
+      .orderBy('id', 'desc')
+      .limit(200)
       .select('id', 'to', 'subject', 'status', 'attempts', 'last_error', 'next_attempt_at');
     res.json({
-      messages: received.map((m) => ({ id: m.id, from: m.from, to: m.to, subject: m.subject, text: m.text, html: m.html, receivedAt: m.received_at })),
-      queued: queued.map((q) => ({ id: q.id, to: q.to, subject: q.subject, status: q.status, attempts: q.attempts, lastError: q.last_error, nextAttemptAt: q.next_attempt_at })),
+      messages: received.map((m) => ({
+        id: m.id,
+        from: m.from,
+        to: m.to,
+        subject: m.subject,
+        text: m.text,
+        html: m.html,
+        receivedAt: m.received_at,
+      })),
+      queued: queued.map((q) => ({
+        id: q.id,
+        to: q.to,
+        subject: q.subject,
+        status: q.status,
+        attempts: q.attempts,
+        lastError: q.last_error,
+        nextAttemptAt: q.next_attempt_at,
+      })),
     });
   });
   return router;

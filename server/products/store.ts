@@ -19,7 +19,13 @@ export interface ProductView {
   createdAt: string;
 }
 
-const toProduct = (r: ProductRow): ProductView => ({ id: r.id, name: r.name, modelNumber: r.model_number, description: r.description, createdAt: r.created_at });
+const toProduct = (r: ProductRow): ProductView => ({
+  id: r.id,
+  name: r.name,
+  modelNumber: r.model_number,
+  description: r.description,
+  createdAt: r.created_at,
+});
 
 /** Counts only dossiers with an approved revision, for a viewer (they see approved work only). */
 const APPROVED_DOSSIER = "EXISTS (SELECT 1 FROM revision seen WHERE seen.dossier_id = dossier.id AND seen.status = 'approved')";
@@ -44,7 +50,13 @@ export async function productDossiers(db: Db, productId: number, approvedOnly = 
 
 export async function insertProduct(trx: Knex.Transaction, input: ProductCreate, createdBy: string): Promise<number> {
   const [row] = await trx('product')
-    .insert({ name: input.name, model_number: input.modelNumber, description: input.description, created_by: createdBy, created_at: new Date().toISOString() })
+    .insert({
+      name: input.name,
+      model_number: input.modelNumber,
+      description: input.description,
+      created_by: createdBy,
+      created_at: new Date().toISOString(),
+    })
     .returning('id');
   return row.id as number;
 }

@@ -14,7 +14,8 @@ export interface ApprovalSigner {
 }
 
 /** What a decision means, as recorded with it and printed on the dossier: "approved as reviewer". */
-export const decisionMeaning = (decision: Decision['decision'], role: string) => `${decision === 'approve' ? 'approved' : 'returned for changes'} as ${role}`;
+export const decisionMeaning = (decision: Decision['decision'], role: string) =>
+  `${decision === 'approve' ? 'approved' : 'returned for changes'} as ${role}`;
 
 /**
  * decideRevision: assert reviewer and not the author, and that an approval passes every check; for an
@@ -47,7 +48,9 @@ export async function decideRevision(
   try {
     await ctx.db.transaction(async (trx) => {
       const status = decision.decision === 'approve' ? 'approved' : 'returned';
-      const changed = await trx('revision').where({ id: revisionId, status: 'in_review' }).update({ status, decided_at: pending.at, updated_at: pending.at });
+      const changed = await trx('revision')
+        .where({ id: revisionId, status: 'in_review' })
+        .update({ status, decided_at: pending.at, updated_at: pending.at });
       if (!changed) throw conflict('Another reviewer decided on this revision a moment ago.');
       await trx('review_decision').insert({
         revision_id: revisionId,
@@ -118,9 +121,17 @@ export async function addReviewComment(ctx: AppContext, user: SignedInUser, revi
     const rev = await loadRevision(trx, revisionId);
     if (user.role !== 'reviewer' && user.id !== rev.author.id) throw forbidden('Only reviewers and the author comment on a revision.');
     // A decided revision is a closed record, and a draft is not yet under review.
-    if (rev.status !== 'in_review') throw conflict(`Revision ${rev.number} is ${rev.status.replace('_', ' ')}; comments are taken only while it awaits review.`);
+    if (rev.status !== 'in_review')
+      throw conflict(`Revision ${rev.number} is ${rev.status.replace('_', ' ')}; comments are taken only while it awaits review.`);
     await trx('review_comment').insert({ revision_id: revisionId, author_id: user.id, body, created_at: new Date().toISOString() });
-    await appendAudit(trx, { actorId: user.id, action: 'revision.comment', subjectType: 'revision', subjectId: revisionId, dossierId: rev.dossierId, payload: { body } });
+    await appendAudit(trx, {
+      actorId: user.id,
+      action: 'revision.comment',
+      subjectType: 'revision',
+      subjectId: revisionId,
+      dossierId: rev.dossierId,
+      payload: { body },
+    });
   });
   return loadRevision(ctx.db, revisionId);
 }

@@ -11,7 +11,8 @@ function evidenceOf(check: Check, rev: Revision): CheckChange['evidence'] {
   return { name: row?.originalName ?? check.evidenceSha256.slice(0, 12), sha256: check.evidenceSha256 };
 }
 
-const side = (c: Check | undefined): CheckSide | null => (c ? { value: c.value, pass: c.pass, unit: c.unit, informational: isInformational(c) } : null);
+const side = (c: Check | undefined): CheckSide | null =>
+  c ? { value: c.value, pass: c.pass, unit: c.unit, informational: isInformational(c) } : null;
 
 /**
  * Checks paired by id. A capture's checks carry its file's hash in their id, so a file carried into
@@ -31,7 +32,8 @@ function diffChecks(previous: Revision, current: Revision): CheckChange[] {
     else if (a && b && a.pass && !b.pass) kind = 'now-fails';
     else if (a && b && !a.pass && b.pass) kind = 'now-passes';
     else if (a && b && a.value !== b.value) kind = 'value-changed';
-    if (kind) checks.push({ id, label: (b ?? a)!.label, from: side(a), to: side(b), kind, evidence: b ? evidenceOf(b, current) : evidenceOf(a!, previous) });
+    if (kind)
+      checks.push({ id, label: (b ?? a)!.label, from: side(a), to: side(b), kind, evidence: b ? evidenceOf(b, current) : evidenceOf(a!, previous) });
   }
   const rank: Record<CheckChange['kind'], number> = { 'now-fails': 0, 'now-passes': 1, 'value-changed': 2, added: 3, removed: 4 };
   return checks.sort((x, y) => rank[x.kind] - rank[y.kind]);

@@ -41,7 +41,9 @@ export async function createDraft(ctx: AppContext, user: SignedInUser, dossierId
       ? await trx('revision').where({ id: fromRevisionId }).first()
       : await trx('revision').where({ dossier_id: dossierId }).orderBy('number', 'desc').first();
     if (fromRevisionId && (!source || source.dossier_id !== dossierId)) {
-      throw new AppError(400, 'invalid_input', 'The revision to copy from is not part of this dossier.', [{ path: 'fromRevisionId', message: 'not in this dossier' }]);
+      throw new AppError(400, 'invalid_input', 'The revision to copy from is not part of this dossier.', [
+        { path: 'fromRevisionId', message: 'not in this dossier' },
+      ]);
     }
     const last = await trx('revision').where({ dossier_id: dossierId }).max({ n: 'number' }).first();
     const number = Number(last?.n ?? 0) + 1;
@@ -99,13 +101,15 @@ export async function updateDraft(ctx: AppContext, user: SignedInUser, revisionI
     const results = computeRevisionResults(dossier.requirement, design, rev.evidence);
     // The status and version guards make a save that races a submit or another writer fail instead of
     // changing a frozen revision or overwriting a newer one.
-    const changed = await trx('revision').where({ id: revisionId, status: 'draft', version: patch.version }).update({
-      design: JSON.stringify(design),
-      notes,
-      ...resultColumns(results),
-      version: patch.version + 1,
-      updated_at: new Date().toISOString(),
-    });
+    const changed = await trx('revision')
+      .where({ id: revisionId, status: 'draft', version: patch.version })
+      .update({
+        design: JSON.stringify(design),
+        notes,
+        ...resultColumns(results),
+        version: patch.version + 1,
+        updated_at: new Date().toISOString(),
+      });
     if (!changed) throw conflict('This revision changed meanwhile; reload it.');
     await appendAudit(trx, {
       actorId: user.id,
@@ -124,7 +128,9 @@ export async function refreshDraftResults(trx: Parameters<typeof loadRevision>[0
   const rev = await loadRevision(trx, revisionId);
   const dossier = await loadDossier(trx, rev.dossierId);
   const results = computeRevisionResults(dossier.requirement, rev.design, rev.evidence);
-  const changed = await trx('revision').where({ id: revisionId, status: 'draft', version: rev.version }).update({ ...resultColumns(results), version: rev.version + 1, updated_at: new Date().toISOString() });
+  const changed = await trx('revision')
+    .where({ id: revisionId, status: 'draft', version: rev.version })
+    .update({ ...resultColumns(results), version: rev.version + 1, updated_at: new Date().toISOString() });
   if (!changed) throw conflict('This revision changed meanwhile; reload it.');
   return rev.version + 1;
 }
@@ -144,14 +150,16 @@ export async function submitRevision(ctx: AppContext, user: SignedInUser, revisi
     const results = computeRevisionResults(dossier.requirement, rev.design, rev.evidence);
     const contentHash = revisionContentHash({ ...rev, results });
     const now = new Date().toISOString();
-    const changed = await trx('revision').where({ id: revisionId, status: 'draft', version: rev.version }).update({
-      ...resultColumns(results),
-      content_hash: contentHash,
-      version: rev.version + 1,
-      status: 'in_review',
-      submitted_at: now,
-      updated_at: now,
-    });
+    const changed = await trx('revision')
+      .where({ id: revisionId, status: 'draft', version: rev.version })
+      .update({
+        ...resultColumns(results),
+        content_hash: contentHash,
+        version: rev.version + 1,
+        status: 'in_review',
+        submitted_at: now,
+        updated_at: now,
+      });
     if (!changed) throw conflict('This revision was submitted meanwhile.');
     await appendAudit(trx, {
       actorId: user.id,

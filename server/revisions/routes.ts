@@ -18,7 +18,11 @@ export function revisionRoutes(ctx: AppContext): Router {
     const rev = await loadRevision(db, parseId(req.params.id));
     assertMaySee(user, rev.status);
     const dossier = await loadDossier(db, rev.dossierId);
-    const siblings = await visibleRevisions(user, db('revision').where({ dossier_id: rev.dossierId }).orderBy('number').select('id', 'number', 'status'), 'status');
+    const siblings = await visibleRevisions(
+      user,
+      db('revision').where({ dossier_id: rev.dossierId }).orderBy('number').select('id', 'number', 'status'),
+      'status',
+    );
     // A viewer sees approved work only, so never the return a draft answers.
     const answersReturn = user.role === 'viewer' ? null : await loadReturnAnswered(db, rev);
     res.json({ ...rev, dossier, siblings, answersReturn });
@@ -27,7 +31,9 @@ export function revisionRoutes(ctx: AppContext): Router {
   router.patch('/:id', allow('engineer', 'admin'), async (req, res) => {
     // A change that does not say which version it was based on could overwrite a newer one.
     if (req.body?.version === undefined) {
-      throw new AppError(428, 'version_required', 'Send the version of the revision you last read with every change.', [{ path: 'version', message: 'required' }]);
+      throw new AppError(428, 'version_required', 'Send the version of the revision you last read with every change.', [
+        { path: 'version', message: 'required' },
+      ]);
     }
     const parsed = revisionPatchSchema.safeParse(req.body);
     if (!parsed.success) throw validationError(parsed.error, 'Some design inputs are not valid.');
@@ -47,7 +53,11 @@ export function revisionRoutes(ctx: AppContext): Router {
     let againstId: number | null = req.query.against === undefined ? current.createdFrom : parseId(req.query.against, 'against');
     if (req.query.against === undefined && againstId !== null && !maySee(user, (await loadRevision(db, againstId)).status)) againstId = null;
     if (againstId === null) {
-      const previous = await visibleRevisions(user, db('revision').where({ dossier_id: current.dossierId }).where('number', '<', current.number).orderBy('number', 'desc'), 'status').first('id');
+      const previous = await visibleRevisions(
+        user,
+        db('revision').where({ dossier_id: current.dossierId }).where('number', '<', current.number).orderBy('number', 'desc'),
+        'status',
+      ).first('id');
       againstId = previous?.id ?? null;
     }
     if (againstId === null) throw new AppError(404, 'not_found', 'This is the first revision; there is nothing to compare it with.');

@@ -25,7 +25,11 @@ export function resultColumns(results: DischargeResult): { results: string; verd
 }
 
 async function people(db: Db, ids: string[]): Promise<Map<string, Person>> {
-  const rows = ids.length ? await db('user').whereIn('id', [...new Set(ids)]).select('id', 'name', 'email') : [];
+  const rows = ids.length
+    ? await db('user')
+        .whereIn('id', [...new Set(ids)])
+        .select('id', 'name', 'email')
+    : [];
   return new Map(rows.map((r) => [r.id, { id: r.id, name: r.name, email: r.email }]));
 }
 
@@ -33,7 +37,10 @@ const unknownPerson = (id: string): Person => ({ id, name: 'unknown user', email
 
 export async function loadEvidence(db: Db, revisionId: number): Promise<EvidenceRecord[]> {
   const rows = await db('evidence').where({ revision_id: revisionId }).orderBy('id');
-  const who = await people(db, rows.map((r) => r.uploaded_by));
+  const who = await people(
+    db,
+    rows.map((r) => r.uploaded_by),
+  );
   return rows.map((r) => ({
     id: r.id,
     revisionId: r.revision_id,
@@ -99,7 +106,13 @@ export async function loadReturnNote(db: Db, dossierId: number, number: number):
     .first('revision.id', 'revision.number', 'review_decision.comment', 'review_decision.reviewer_id', 'review_decision.created_at');
   if (!row) return null;
   const who = await people(db, [row.reviewer_id]);
-  return { revisionId: row.id, number: row.number, comment: row.comment, reviewer: who.get(row.reviewer_id) ?? unknownPerson(row.reviewer_id), at: row.created_at };
+  return {
+    revisionId: row.id,
+    number: row.number,
+    comment: row.comment,
+    reviewer: who.get(row.reviewer_id) ?? unknownPerson(row.reviewer_id),
+    at: row.created_at,
+  };
 }
 
 /** The return a revision answers: that of the revision just before it, when it was returned. */
@@ -117,7 +130,9 @@ export interface DossierSummary {
 }
 
 export async function loadDossier(db: Db, id: number): Promise<DossierSummary> {
-  const row = await db('dossier').join('product', 'product.id', 'dossier.product_id').where('dossier.id', id)
+  const row = await db('dossier')
+    .join('product', 'product.id', 'dossier.product_id')
+    .where('dossier.id', id)
     .first('dossier.*', 'product.name as product_name', 'product.model_number as product_model');
   if (!row) throw notFound('Dossier');
   return {
@@ -156,7 +171,9 @@ function whereRevisions(query: Knex.QueryBuilder, filter: RevisionFilter): Knex.
   if (filter.notAuthorId !== undefined) query.whereNot('revision.author_id', filter.notAuthorId);
   if (filter.status) query.whereIn('revision.status', filter.status);
   if (filter.latestOnly) {
-    query.whereNotExists((later) => later.from('revision as later').whereRaw('later.dossier_id = revision.dossier_id').andWhereRaw('later.number > revision.number'));
+    query.whereNotExists((later) =>
+      later.from('revision as later').whereRaw('later.dossier_id = revision.dossier_id').andWhereRaw('later.number > revision.number'),
+    );
   }
   return query;
 }
@@ -165,7 +182,12 @@ function whereRevisions(query: Knex.QueryBuilder, filter: RevisionFilter): Knex.
  * The one revision-list query: the overview, the review queue and a dossier's page all read revisions
  * through it. Reads the verdict column, never the results JSON; `page: null` answers every match.
  */
-export async function revisionSummaries(db: Db, filter: RevisionFilter, order: RevisionOrder, page: PageQuery | null): Promise<Page<RevisionSummary>> {
+export async function revisionSummaries(
+  db: Db,
+  filter: RevisionFilter,
+  order: RevisionOrder,
+  page: PageQuery | null,
+): Promise<Page<RevisionSummary>> {
   const { column, direction } = ORDERS[order];
   const query = whereRevisions(
     db('revision')
@@ -174,13 +196,30 @@ export async function revisionSummaries(db: Db, filter: RevisionFilter, order: R
       .join('user', 'user.id', 'revision.author_id')
       .leftJoin('signed_dossier', 'signed_dossier.revision_id', 'revision.id')
       .select(
-        'revision.id', 'revision.dossier_id', 'revision.number', 'revision.status', 'revision.verdict', 'revision.author_id', 'revision.created_from',
-        'revision.created_at', 'revision.updated_at', 'revision.submitted_at', 'revision.decided_at', 'user.name as author_name',
-        'dossier.title', 'dossier.product_id', 'product.name as product_name',
-        'signed_dossier.sha256 as pdf_sha256', 'signed_dossier.size as pdf_size', 'signed_dossier.created_at as pdf_created_at',
+        'revision.id',
+        'revision.dossier_id',
+        'revision.number',
+        'revision.status',
+        'revision.verdict',
+        'revision.author_id',
+        'revision.created_from',
+        'revision.created_at',
+        'revision.updated_at',
+        'revision.submitted_at',
+        'revision.decided_at',
+        'user.name as author_name',
+        'dossier.title',
+        'dossier.product_id',
+        'product.name as product_name',
+        'signed_dossier.sha256 as pdf_sha256',
+        'signed_dossier.size as pdf_size',
+        'signed_dossier.created_at as pdf_created_at',
       ),
     filter,
-  ).orderBy([{ column: `revision.${column}`, order: direction }, { column: 'revision.id', order: direction }]);
+  ).orderBy([
+    { column: `revision.${column}`, order: direction },
+    { column: 'revision.id', order: direction },
+  ]);
   if (!page) {
     const rows: SummaryRow[] = await query;
     return { items: rows.map(summaryView), nextCursor: null, total: rows.length };
@@ -242,7 +281,11 @@ export function revisionContentHash(rev: Pick<Revision, 'dossierId' | 'number' |
     Array.isArray(v)
       ? v.map(canonical)
       : v && typeof v === 'object'
-        ? Object.fromEntries(Object.keys(v).sort().map((k) => [k, canonical((v as Record<string, unknown>)[k])]))
+        ? Object.fromEntries(
+            Object.keys(v)
+              .sort()
+              .map((k) => [k, canonical((v as Record<string, unknown>)[k])]),
+          )
         : v;
   const material = canonical({
     dossierId: rev.dossierId,

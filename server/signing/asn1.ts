@@ -54,15 +54,17 @@ export function toArrayBuffer(bytes: Uint8Array): ArrayBuffer {
   return bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength) as ArrayBuffer;
 }
 
-export const der = (object: { toSchema(encodeFlag?: boolean): asn1js.AsnType }): Uint8Array =>
-  new Uint8Array(object.toSchema(true).toBER(false));
+export const der = (object: { toSchema(encodeFlag?: boolean): asn1js.AsnType }): Uint8Array => new Uint8Array(object.toSchema(true).toBER(false));
 
 export function parseCertificate(bytes: Uint8Array): pkijs.Certificate {
   return pkijs.Certificate.fromBER(toArrayBuffer(bytes));
 }
 
 export function pem(label: 'CERTIFICATE' | 'X509 CRL', bytes: Uint8Array): string {
-  const body = Buffer.from(bytes).toString('base64').replace(/(.{64})/g, '$1\n').replace(/\n$/, '');
+  const body = Buffer.from(bytes)
+    .toString('base64')
+    .replace(/(.{64})/g, '$1\n')
+    .replace(/\n$/, '');
   return `-----BEGIN ${label}-----\n${body}\n-----END ${label}-----\n`;
 }
 

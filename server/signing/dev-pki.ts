@@ -132,7 +132,13 @@ function crlDue(crl: Uint8Array): boolean {
 async function createPki(): Promise<DevPki> {
   const root = await issue({ commonName: DEV_NAMES.root, ca: true, keyUsage: ['keyCertSign', 'cRLSign'] });
   const signer = await issue({ commonName: DEV_NAMES.signer, ca: false, keyUsage: ['digitalSignature', 'nonRepudiation'], issuer: root });
-  const tsa = await issue({ commonName: DEV_NAMES.tsa, ca: false, keyUsage: ['digitalSignature', 'nonRepudiation'], extKeyUsage: [OID.timeStamping], issuer: root });
+  const tsa = await issue({
+    commonName: DEV_NAMES.tsa,
+    ca: false,
+    keyUsage: ['digitalSignature', 'nonRepudiation'],
+    extKeyUsage: [OID.timeStamping],
+    issuer: root,
+  });
   return { root, signer, tsa, crl: await issueCrl(root) };
 }
 

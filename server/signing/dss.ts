@@ -74,7 +74,10 @@ export function appendDss(pdf: Buffer, data: ValidationData): Buffer {
   const crls = streams(data.crls);
   const dss = next++;
   write(dss, `<< /Type /DSS /Certs [${certs.join(' ')}]${crls.length ? ` /CRLs [${crls.join(' ')}]` : ''} >>`);
-  const withoutDss = catalog.slice(0, -2).replace(/\/DSS\s+\d+\s+0\s+R/, '').trimEnd();
+  const withoutDss = catalog
+    .slice(0, -2)
+    .replace(/\/DSS\s+\d+\s+0\s+R/, '')
+    .trimEnd();
   write(trailer.root, `${withoutDss}\n/DSS ${dss} 0 R\n>>`);
 
   const xref = offset;

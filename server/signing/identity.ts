@@ -107,9 +107,7 @@ export async function organisationSetup(options: OrganisationOptions): Promise<S
     );
   }
   const parsed = parseCertificate(certificate);
-  const privateKey = new Uint8Array(
-    Buffer.from(forge.asn1.toDer(forge.pki.wrapRsaPrivateKey(forge.pki.privateKeyToAsn1(key))).getBytes(), 'binary'),
-  );
+  const privateKey = new Uint8Array(Buffer.from(forge.asn1.toDer(forge.pki.wrapRsaPrivateKey(forge.pki.privateKeyToAsn1(key))).getBytes(), 'binary'));
   return {
     identity: {
       kind: 'organisation',

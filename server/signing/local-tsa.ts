@@ -53,7 +53,12 @@ export async function startLocalTsa(key: () => Promise<KeyPairDer>, port = 0): P
 async function answer(body: Buffer, key: () => Promise<KeyPairDer>): Promise<Buffer> {
   const request = pkijs.TimeStampReq.fromBER(toArrayBuffer(body));
   if (request.messageImprint.hashAlgorithm.algorithmId !== OID.sha256) {
-    return reply(new pkijs.PKIStatusInfo({ status: pkijs.PKIStatus.rejection, statusStrings: [new asn1js.Utf8String({ value: 'only SHA-256 imprints are accepted' })] }));
+    return reply(
+      new pkijs.PKIStatusInfo({
+        status: pkijs.PKIStatus.rejection,
+        statusStrings: [new asn1js.Utf8String({ value: 'only SHA-256 imprints are accepted' })],
+      }),
+    );
   }
   const tsa = await key();
   const genTime = new Date(Math.floor(Date.now() / 1000) * 1000);

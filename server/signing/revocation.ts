@@ -14,11 +14,7 @@ const cache = new Map<string, { crl: Uint8Array; until: number }>();
 export async function validationData(setup: SigningSetup, timestamp: TimestampToken | null): Promise<ValidationData> {
   const pool = uniqueDer([...setup.caCertificates, ...(timestamp?.certificates ?? [])]);
   const tsaCerts = (timestamp?.certificates ?? []).filter((c) => !setup.caCertificates.some((ca) => Buffer.from(ca).equals(Buffer.from(c))));
-  const certificates = uniqueDer([
-    setup.identity.certificate,
-    ...setup.identity.chain,
-    ...tsaCerts.flatMap((c) => [c, ...chainOf(c, pool)]),
-  ]);
+  const certificates = uniqueDer([setup.identity.certificate, ...setup.identity.chain, ...tsaCerts.flatMap((c) => [c, ...chainOf(c, pool)])]);
   const crls = [...setup.crls];
   if (setup.fetchCrls) {
     for (const cert of certificates.filter((c) => !selfSigned(c))) crls.push(...(await fetchCrls(cert)));

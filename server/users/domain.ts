@@ -41,7 +41,10 @@ function toMember(row: UserRow, invite: LinkRow | undefined, now: string): TeamM
 
 export async function listTeam(ctx: AppContext): Promise<TeamMember[]> {
   const rows = await listUsers(ctx.db);
-  const invites = await latestInvites(ctx.db, rows.map((r) => r.id));
+  const invites = await latestInvites(
+    ctx.db,
+    rows.map((r) => r.id),
+  );
   const now = new Date(ctx.clock.now()).toISOString();
   return rows.map((r) => toMember(r, invites.get(r.id), now));
 }
@@ -54,7 +57,12 @@ export async function teamMember(ctx: AppContext, id: string): Promise<TeamMembe
 }
 
 /** Issues an invitation link and queues its e-mail in the caller's transaction. */
-async function sendInvite(ctx: AppContext, trx: Knex.Transaction, admin: SignedInUser, user: Pick<UserRow, 'id' | 'email' | 'name' | 'role'>): Promise<void> {
+async function sendInvite(
+  ctx: AppContext,
+  trx: Knex.Transaction,
+  admin: SignedInUser,
+  user: Pick<UserRow, 'id' | 'email' | 'name' | 'role'>,
+): Promise<void> {
   const { token, expiresAt } = await issueLink(trx, ctx.clock, user.id, 'invite');
   await queueMail(trx, user.email, 'invite', {
     name: user.name,
@@ -75,7 +83,13 @@ export async function inviteUser(ctx: AppContext, admin: SignedInUser, input: In
   await ctx.db.transaction(async (trx) => {
     await insertUser(trx, { ...user, password_hash: null, disabled_at: null, created_at: new Date(ctx.clock.now()).toISOString() });
     await sendInvite(ctx, trx, admin, user);
-    await appendAudit(trx, { actorId: admin.id, action: 'user.invite', subjectType: 'user', subjectId: user.id, payload: { email: input.email, role: input.role } });
+    await appendAudit(trx, {
+      actorId: admin.id,
+      action: 'user.invite',
+      subjectType: 'user',
+      subjectId: user.id,
+      payload: { email: input.email, role: input.role },
+    });
   });
   ctx.kickMail();
   return teamMember(ctx, user.id);
@@ -112,7 +126,12 @@ export async function revokeInvite(ctx: AppContext, admin: SignedInUser, id: str
 }
 
 /** updateMember: role or disabled; nobody disables themself or drops their own admin role; a disabled user's sessions end at once. */
-export async function updateMember(ctx: AppContext, admin: SignedInUser, id: string, patch: { role?: UserRow['role']; disabled?: boolean }): Promise<TeamMember> {
+export async function updateMember(
+  ctx: AppContext,
+  admin: SignedInUser,
+  id: string,
+  patch: { role?: UserRow['role']; disabled?: boolean },
+): Promise<TeamMember> {
   const target = await findUser(ctx.db, id);
   if (!target) throw notFound('User');
   if (target.id === admin.id && (patch.disabled || (patch.role && patch.role !== 'admin'))) {

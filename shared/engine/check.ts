@@ -4,9 +4,7 @@ import type { Check } from '../schema/discharge';
 type Base = Pick<Check, 'id' | 'label' | 'unit' | 'detail'>;
 
 /** margin = (limit − value) / limit for an upper limit; without a limit the check is for information. */
-export function upperLimitCheck(
-  fields: Omit<Check, 'pass' | 'margin' | 'limit' | 'value'> & { value: number; limit: number | null },
-): Check {
+export function upperLimitCheck(fields: Omit<Check, 'pass' | 'margin' | 'limit' | 'value'> & { value: number; limit: number | null }): Check {
   const { limit, value } = fields;
   if (limit === null) return { ...fields, pass: true, margin: null, informational: true };
   return { ...fields, pass: value <= limit, margin: (limit - value) / limit };

@@ -31,9 +31,7 @@ export interface DischargeRequest {
   readonly design: Readonly<DesignDraft>;
 }
 
-export type CompleteInput =
-  | { ok: true; requirement: Requirement; design: Design }
-  | { ok: false; missing: string[] };
+export type CompleteInput = { ok: true; requirement: Requirement; design: Design } | { ok: false; missing: string[] };
 
 /** The fields whose absence or invalidity keeps a verdict from being given, as dotted paths. */
 function issuePaths(prefix: string, issues: readonly { path: readonly PropertyKey[] }[]): string[] {
@@ -117,9 +115,7 @@ function dischargeChecks(requirement: Requirement, design: Design, worst: Scenar
   if (requirement.maxCharge != null) checks.push(chargeCheck(requirement, worst));
   if (design.active?.mode === 'switched-resistor') checks.push(...switchedChecks(design, worst));
   if (design.balancing) checks.push(balancingCheck(design, worst));
-  return checks.map((c) =>
-    c.alternative && !c.pass ? { ...c, detail: `${c.detail}; ${otherwiseMet(requirement, worst)}` } : c,
-  );
+  return checks.map((c) => (c.alternative && !c.pass ? { ...c, detail: `${c.detail}; ${otherwiseMet(requirement, worst)}` } : c));
 }
 
 function alreadySafe(s: Scenario, requirement: Requirement): string {

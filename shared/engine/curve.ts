@@ -21,20 +21,17 @@ function tauInstant(s: Scenario): number | undefined {
  */
 export function dischargeCurve(nominal: Scenario, worst: Scenario, timeLimit: number, resolution: CurveResolution = 'full'): CurvePoint[] {
   const end = 1.25 * Math.max(timeLimit, nominal.timeToSafe, worst.timeToSafe);
-  const marks = [
-    tauInstant(nominal),
-    tauInstant(worst),
-    nominal.timeToSafe,
-    worst.timeToSafe,
-    timeLimit,
-  ].filter((t): t is number => t !== undefined && t > 0 && t < end);
+  const marks = [tauInstant(nominal), tauInstant(worst), nominal.timeToSafe, worst.timeToSafe, timeLimit].filter(
+    (t): t is number => t !== undefined && t > 0 && t < end,
+  );
   const times: number[] = [];
   for (let i = 0; i < GRID_POINTS; i += 1) times.push((end * i) / (GRID_POINTS - 1));
   for (const mark of marks) if (!times.includes(mark)) times.push(mark);
   times.sort((a, b) => a - b);
   // Plain loops: every live check draws this curve.
   const curve: CurvePoint[] = [];
-  for (const t of times) curve.push({ t, v: pathVoltage(nominal.main, nominal.initialVoltage, t), vWorst: pathVoltage(worst.main, worst.initialVoltage, t) });
+  for (const t of times)
+    curve.push({ t, v: pathVoltage(nominal.main, nominal.initialVoltage, t), vWorst: pathVoltage(worst.main, worst.initialVoltage, t) });
   if (resolution === 'full') return curve;
   const anchors = new Set(marks);
   return simplify(curve, anchors).map((p) => (anchors.has(p.t) ? p : { t: round(p.t), v: round(p.v), vWorst: round(p.vWorst) }));

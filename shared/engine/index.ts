@@ -36,12 +36,6 @@ export { balancingBound, worstCapacitorVoltage } from './balancing';
 export { scenario, worstCaseTime, type Corner, type Scenario } from './scenario';
 export { dischargeCurve, CHART_TOLERANCE, CURVE_MAX_POINTS, type CurveResolution } from './curve';
 export { sensitivity } from './sensitivity';
-export {
-  suggestBleeder,
-  SUGGEST_MAX_PARALLEL,
-  SUGGEST_MAX_RESISTANCE,
-  SUGGEST_MAX_SERIES,
-  type SuggestDesign,
-} from './suggest';
+export { suggestBleeder, SUGGEST_MAX_PARALLEL, SUGGEST_MAX_RESISTANCE, SUGGEST_MAX_SERIES, type SuggestDesign } from './suggest';
 export { eSeriesMantissas, eValueAbove, eValueAtOrBelow, type ESeries } from './e-series';
 export { spiceNetlist, SPICE_BUS_NODE, SPICE_MEASURE } from './spice';

@@ -52,9 +52,7 @@ const T0_SOURCE: Record<WaveformAnalysis['t0Source'], string> = {
 };
 
 type Loading =
-  | { kind: 'not-given' }
-  | { kind: 'corrected'; tau: number; probe: number; capacitance: number }
-  | { kind: 'impossible'; reason: string };
+  { kind: 'not-given' } | { kind: 'corrected'; tau: number; probe: number; capacitance: number } | { kind: 'impossible'; reason: string };
 
 /**
  * The measuring chain's input resistance R_m sits across the bank, in parallel with the bleeders, so
@@ -128,7 +126,8 @@ export function measuredDischargeCheck(
   const tau = loading.kind === 'corrected' ? loading.tau : analysis.tau;
   // For an exponential every crossing time scales with τ (t = τ·ln(V0/V)).
   const unloaded = measured === null || loading.kind !== 'corrected' || analysis.tau === null ? measured : (measured * loading.tau) / analysis.tau;
-  const start: NonNullable<Check['referral']>['start'] = v0 >= maxVoltage ? 'as-measured' : tau === null || v0 <= safeVoltage ? 'not-referable' : 'referred';
+  const start: NonNullable<Check['referral']>['start'] =
+    v0 >= maxVoltage ? 'as-measured' : tau === null || v0 <= safeVoltage ? 'not-referable' : 'referred';
   const referral: NonNullable<Check['referral']> = {
     measuredTime: measured,
     v0,
@@ -149,17 +148,22 @@ export function measuredDischargeCheck(
       : `${evidenceName}: from ${from} at t0 (${T0_SOURCE[analysis.t0Source]}), below ${q(safeVoltage, 'V')} to stay after ${q(measured, 's')} as measured`,
   );
   if (analysis.vAtLimit !== undefined) {
-    clauses.push(analysis.vAtLimit === null ? 'the capture ends before the time limit' : `${q(analysis.vAtLimit, 'V')} at the time limit in the capture`);
+    clauses.push(
+      analysis.vAtLimit === null ? 'the capture ends before the time limit' : `${q(analysis.vAtLimit, 'V')} at the time limit in the capture`,
+    );
   }
   clauses.push(loadingWords(loading, analysis.tau));
   const warnings = analysis.warnings ?? [];
-  if (warnings.length) clauses.push(`${warnings.length === 1 ? 'one warning' : `${warnings.length} warnings`} on this capture to read first: ${warnings.join('; ')}`);
+  if (warnings.length)
+    clauses.push(`${warnings.length === 1 ? 'one warning' : `${warnings.length} warnings`} on this capture to read first: ${warnings.join('; ')}`);
 
   let value: number | null = null;
   if (measured !== null && unloaded !== null && loading.kind !== 'impossible') {
     if (start === 'as-measured') {
       value = unloaded;
-      clauses.push(`started at or above the ${q(maxVoltage, 'V')} maximum bus: time used as measured${loading.kind === 'corrected' ? ` and unloaded, ${q(unloaded, 's')}` : ''}`);
+      clauses.push(
+        `started at or above the ${q(maxVoltage, 'V')} maximum bus: time used as measured${loading.kind === 'corrected' ? ` and unloaded, ${q(unloaded, 's')}` : ''}`,
+      );
     } else if (start === 'referred' && tau !== null) {
       // RC decay from V_max: t(V_max→V_safe) = t(V0→V_safe) + τ·ln(V_max/V0).
       value = unloaded + tau * Math.log(maxVoltage / v0);
@@ -207,7 +211,10 @@ function tauCheck(
   const fromUpper = (band.upper - tau) / band.upper;
   const againstLower = where === 'below' || (where === 'within' && fromLower < fromUpper);
   const fit = analysis.rSquared === null ? '' : `, R² ${analysis.rSquared.toFixed(4)}`;
-  const figure = loading.kind === 'corrected' ? `Fitted τ ${q(tau, 's')} unloaded (${q(analysis.tau ?? NaN, 's')} as measured${fit})` : `Fitted τ ${q(tau, 's')}${fit}`;
+  const figure =
+    loading.kind === 'corrected'
+      ? `Fitted τ ${q(tau, 's')} unloaded (${q(analysis.tau ?? NaN, 's')} as measured${fit})`
+      : `Fitted τ ${q(tau, 's')}${fit}`;
   const meaning =
     where === 'below'
       ? ': lower C or R than declared, or a discharge path the calculation does not credit'

@@ -55,11 +55,7 @@ function snubberEnergyCheck(snubbers: readonly Snubber[], requirement: Requireme
  * computeRevisionResults: the discharge engine on the inputs, plus snubber and measured checks, and the
  * verdict over all of them (incomplete while any input a check needs is missing).
  */
-export function computeRevisionResults(
-  requirement: Requirement,
-  design: DesignDraft,
-  captures: readonly MeasuredCapture[] = [],
-): DischargeResult {
+export function computeRevisionResults(requirement: Requirement, design: DesignDraft, captures: readonly MeasuredCapture[] = []): DischargeResult {
   const base = computeDischarge({ requirement, design });
   const extra: Check[] = [];
   const missing = [...base.missing];

@@ -58,9 +58,7 @@ export function scenario(requirement: Requirement, design: Design, corner: Corne
     passive,
     timeToSafe: pathTime(main, initialVoltage, threshold.voltage),
     passiveTimeToSafe: pathTime(passive, initialVoltage, threshold.voltage),
-    resistorCorner: worst
-      ? net.maxCorner
-      : { factor: 1, tolerance: 0, tcr: 1, temperature: 25, drift: 0 },
+    resistorCorner: worst ? net.maxCorner : { factor: 1, tolerance: 0, tcr: 1, temperature: 25, drift: 0 },
   };
 }
 

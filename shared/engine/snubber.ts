@@ -2,13 +2,7 @@
 // each snubber in a design (resistor dissipation, capacitor voltage, damping or reset), and the energy
 // left in accessible snubber capacitors for the discharge inventory. Pure; SI base units throughout.
 import type { Check } from '../schema/discharge';
-import {
-  MULTIPLE_RANGE,
-  type RcdClampSnubber,
-  type RcdTurnoffSnubber,
-  type RcSnubber,
-  type Snubber,
-} from '../schema/snubber';
+import { MULTIPLE_RANGE, type RcdClampSnubber, type RcdTurnoffSnubber, type RcSnubber, type Snubber } from '../schema/snubber';
 // Short local names: the detail lines quote many quantities.
 import { formatPercent as pct, formatQuantity as si } from '../units';
 import { E12, E24, nearestPreferred } from './snubber-e-series';
@@ -90,10 +84,7 @@ export function sizeFromRinging(m: RingingMeasurement): RingingSizing {
     nodeCapacitance: cPar,
     snubber: { resistance: resistanceE24, capacitance: capacitanceE12 },
   });
-  const operating =
-    m.switchingVoltage != null && m.switchingFrequency != null
-      ? { v: m.switchingVoltage, f: m.switchingFrequency }
-      : null;
+  const operating = m.switchingVoltage != null && m.switchingFrequency != null ? { v: m.switchingVoltage, f: m.switchingFrequency } : null;
   return {
     f0: m.f0,
     f1: m.f1,
@@ -120,21 +111,11 @@ export interface SnubberCheckOptions {
   readonly minDampingRatio?: number;
 }
 
-function upper(
-  base: Pick<Check, 'id' | 'label' | 'unit'>,
-  value: number,
-  limit: number,
-  detail: string,
-): Check {
+function upper(base: Pick<Check, 'id' | 'label' | 'unit'>, value: number, limit: number, detail: string): Check {
   return { ...base, value, limit, pass: value <= limit, margin: (limit - value) / limit, detail };
 }
 
-function lower(
-  base: Pick<Check, 'id' | 'label' | 'unit'>,
-  value: number,
-  limit: number,
-  detail: string,
-): Check {
+function lower(base: Pick<Check, 'id' | 'label' | 'unit'>, value: number, limit: number, detail: string): Check {
   return { ...base, value, limit, pass: value >= limit, margin: (value - limit) / limit, detail };
 }
 
@@ -178,24 +159,12 @@ function rcChecks(s: RcSnubber, options: SnubberCheckOptions): Check[] {
   ];
   // The capacitor follows the node through R, so it sees no more than the node's peak.
   const peak = s.switchingVoltage * (1 + s.overshoot);
-  checks.push(
-    voltageCheck(
-      s,
-      peak,
-      `switching voltage ${si(s.switchingVoltage, 'V')} plus ${pct(s.overshoot)} overshoot`,
-    ),
-  );
+  checks.push(voltageCheck(s, peak, `switching voltage ${si(s.switchingVoltage, 'V')} plus ${pct(s.overshoot)} overshoot`));
 
   const minZeta = options.minDampingRatio ?? DEFAULT_MIN_DAMPING_RATIO;
   const dampingBase = { id: 'snubber-damping', label: label(s, 'damping'), unit: '' };
   if (s.parasiticInductance == null) {
-    checks.push(
-      undecided(
-        dampingBase,
-        minZeta,
-        'Parasitic inductance not entered: measure the ringing and size it with the snubber helper',
-      ),
-    );
+    checks.push(undecided(dampingBase, minZeta, 'Parasitic inductance not entered: measure the ringing and size it with the snubber helper'));
     return checks;
   }
   const L = s.parasiticInductance;
@@ -217,12 +186,7 @@ function rcChecks(s: RcSnubber, options: SnubberCheckOptions): Check[] {
       ? 'node capacitance not entered, so the series R-L-C of the snubber alone'
       : `with ${si(s.parasiticCapacitance, 'F')} at the node`;
   checks.push(
-    lower(
-      dampingBase,
-      worst.zeta,
-      minZeta,
-      `Damping ratio of ${si(L, 'H')} ${node}, worst at ${worst.name}; at least ${minZeta} (common practice)`,
-    ),
+    lower(dampingBase, worst.zeta, minZeta, `Damping ratio of ${si(L, 'H')} ${node}, worst at ${worst.name}; at least ${minZeta} (common practice)`),
   );
   return checks;
 }
@@ -242,11 +206,7 @@ function rcdTurnoffChecks(s: RcdTurnoffSnubber): Check[] {
       `½·C·V²·f_sw with C at +${pct(s.capacitanceTolerance)} (${si(cMax, 'F')}), peak ${si(peak, 'V')}, ` +
         `${si(s.switchingFrequency, 'Hz')}; limit ${text}`,
     ),
-    voltageCheck(
-      s,
-      peak,
-      `switching voltage ${si(s.switchingVoltage, 'V')} plus ${pct(s.overshoot)} overshoot, held by the diode`,
-    ),
+    voltageCheck(s, peak, `switching voltage ${si(s.switchingVoltage, 'V')} plus ${pct(s.overshoot)} overshoot, held by the diode`),
   ];
 
   const resetBase = { id: 'snubber-reset', label: label(s, 'reset time'), unit: 's' };
@@ -266,9 +226,7 @@ function rcdTurnoffChecks(s: RcdTurnoffSnubber): Check[] {
 
   const sizeBase = { id: 'snubber-capacitance', label: label(s, 'capacitance for the current fall'), unit: 'F' };
   if (s.switchedCurrent == null || s.fallTime == null) {
-    checks.push(
-      undecided(sizeBase, null, 'Switched current or fall time not entered: needed to size the capacitor'),
-    );
+    checks.push(undecided(sizeBase, null, 'Switched current or fall time not entered: needed to size the capacitor'));
   } else {
     // C ≈ I·t_f/(2V): the capacitor takes the falling current so the node reaches V only as the current ends.
     const needed = (s.switchedCurrent * s.fallTime) / (2 * s.switchingVoltage);
@@ -333,8 +291,7 @@ function rcdClampChecks(s: RcdClampSnubber): Check[] {
       voltageCheck(
         s,
         op.clampVoltage + ripple,
-        `settled clamp ${si(op.clampVoltage, 'V')} plus ${si(ripple, 'V')} ripple with C at ` +
-          `−${pct(s.capacitanceTolerance)}`,
+        `settled clamp ${si(op.clampVoltage, 'V')} plus ${si(ripple, 'V')} ripple with C at ` + `−${pct(s.capacitanceTolerance)}`,
       ),
     ];
   }
@@ -375,9 +332,7 @@ export function snubberMissingInputs(snubber: Readonly<Snubber>): string[] {
     case 'rcd-turnoff':
       return (['minOnTime', 'switchedCurrent', 'fallTime'] as const).filter((k) => snubber[k] == null);
     case 'rcd-clamp': {
-      const leakage = (['leakageInductance', 'peakCurrent', 'reflectedVoltage'] as const).filter(
-        (k) => snubber[k] == null,
-      );
+      const leakage = (['leakageInductance', 'peakCurrent', 'reflectedVoltage'] as const).filter((k) => snubber[k] == null);
       if (leakage.length === 0) return [];
       return snubber.clampVoltage == null ? ['clampVoltage', ...leakage] : [];
     }
@@ -407,10 +362,7 @@ export interface SnubberEnergy {
  * snubber's switching voltage when no bus voltage is given); an RCD clamp at the voltage it settles at
  * (or its declared clamp voltage).
  */
-export function snubberStoredEnergy(
-  snubbers: readonly Readonly<Snubber>[],
-  busVoltage?: number,
-): { entries: SnubberEnergy[]; total: number } {
+export function snubberStoredEnergy(snubbers: readonly Readonly<Snubber>[], busVoltage?: number): { entries: SnubberEnergy[]; total: number } {
   const entries = snubbers
     .filter((s) => s.accessible)
     .map((s): SnubberEnergy => {

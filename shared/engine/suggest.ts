@@ -82,8 +82,7 @@ export function suggestBleeder(requirement: Requirement, design: SuggestDesign):
   }
 
   // Fewest parts first, then the coolest resistors.
-  const rank = (a: BleederOption, b: BleederOption) =>
-    a.series * a.parallel - b.series * b.parallel || a.powerPerResistor - b.powerPerResistor;
+  const rank = (a: BleederOption, b: BleederOption) => a.series * a.parallel - b.series * b.parallel || a.powerPerResistor - b.powerPerResistor;
   const bestE24 = [...options.E24].sort(rank)[0];
   const primary = bestE24 ?? [...options.E96].sort(rank)[0];
   if (primary === undefined) return { found: false, reason: noBleederReason() };

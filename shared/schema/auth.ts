@@ -17,7 +17,10 @@ export const passwordLength = (password: string) => [...password.trim().replace(
 export const passwordSchema = z
   .string()
   .max(MAX_PASSWORD_LENGTH, `Use at most ${MAX_PASSWORD_LENGTH} characters.`)
-  .refine((p) => passwordLength(p) >= MIN_PASSWORD_LENGTH, `Use at least ${MIN_PASSWORD_LENGTH} characters; spaces at the ends and repeated spaces do not count.`);
+  .refine(
+    (p) => passwordLength(p) >= MIN_PASSWORD_LENGTH,
+    `Use at least ${MIN_PASSWORD_LENGTH} characters; spaces at the ends and repeated spaces do not count.`,
+  );
 
 export const setPasswordSchema = z.object({ token: z.string().min(10).max(200), password: passwordSchema });
 

@@ -19,10 +19,7 @@ interface QuantityRule {
 function quantity(rule: QuantityRule) {
   const { label, unit, min, max } = rule;
   let schema = z.number({
-    error: (issue) =>
-      issue.input === undefined || issue.input === null
-        ? `${label} is required`
-        : `${label} must be a finite number in ${unit}`,
+    error: (issue) => (issue.input === undefined || issue.input === null ? `${label} is required` : `${label} must be a finite number in ${unit}`),
   });
   if (rule.integer) schema = schema.int(`${label} must be a whole number`);
   schema = rule.minInclusive
@@ -35,10 +32,8 @@ const voltage = (label: string) => quantity({ label, unit: 'V', min: 0, max: 1e6
 const time = (label: string) => quantity({ label, unit: 's', min: 0, max: 1e6 });
 const delay = (label: string) => quantity({ label, unit: 's', min: 0, minInclusive: true, max: 1e6 });
 const count = (label: string) => quantity({ label, unit: 'units', min: 1, minInclusive: true, max: 1000, integer: true });
-const fraction = (label: string) =>
-  quantity({ label, unit: '(fraction, 0.01 = 1 %)', min: 0, minInclusive: true, max: 0.999 });
-const temperature = (label: string) =>
-  quantity({ label, unit: '°C', min: -273.15, minInclusive: true, max: 1000 });
+const fraction = (label: string) => quantity({ label, unit: '(fraction, 0.01 = 1 %)', min: 0, minInclusive: true, max: 0.999 });
+const temperature = (label: string) => quantity({ label, unit: '°C', min: -273.15, minInclusive: true, max: 1000 });
 const text = (label: string) => z.string({ error: `${label} must be text` }).max(2000, `${label} is too long`);
 
 // Leaf definitions, written once and used for both the complete design and the draft.
@@ -160,9 +155,7 @@ export const switchedResistorSchema = z.object({
   powerRating: quantity({ label: 'Discharge resistor pulse power rating', unit: 'W', min: 0, max: 1e9 }).nullish(),
 });
 const activeModeError = { error: 'Active discharge mode must be "constant-current" or "switched-resistor"' };
-export const activeSchema = z
-  .discriminatedUnion('mode', [constantCurrentSchema, switchedResistorSchema], activeModeError)
-  .nullable();
+export const activeSchema = z.discriminatedUnion('mode', [constantCurrentSchema, switchedResistorSchema], activeModeError).nullable();
 export const balancingSchema = z.object(balancingLeaves);
 
 export const designSchema = z.object({

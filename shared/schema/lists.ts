@@ -21,7 +21,12 @@ export const pageQuerySchema = z.object({
 
 export const dossierListQuerySchema = pageQuerySchema.extend({
   /** Matches the title, the product name, the model number or the requirement's reference. */
-  q: z.string().trim().max(200).optional().transform((v) => v || undefined),
+  q: z
+    .string()
+    .trim()
+    .max(200)
+    .optional()
+    .transform((v) => v || undefined),
   productId: whole('The product').positive('The product id is positive.').optional(),
   /** The status of the dossier's latest revision. */
   status: z.enum(revisionStatuses, 'Choose draft, in_review, approved or returned.').optional(),

@@ -27,8 +27,7 @@ export const CAPACITANCE_RANGE = { min: 1e-14, max: 1e-3 } as const;
 export const MULTIPLE_RANGE = { min: 1, max: 20, default: 3.5 } as const;
 
 const frequency = (what: string) => positive(what, FREQUENCY_RANGE.min, FREQUENCY_RANGE.max, 'Hz');
-const capacitance = (what: string) =>
-  positive(what, CAPACITANCE_RANGE.min, CAPACITANCE_RANGE.max, 'F');
+const capacitance = (what: string) => positive(what, CAPACITANCE_RANGE.min, CAPACITANCE_RANGE.max, 'F');
 
 export const snubberKinds = ['rc', 'rcd-turnoff', 'rcd-clamp'] as const;
 export type SnubberKind = (typeof snubberKinds)[number];
@@ -85,11 +84,7 @@ export const rcdClampSnubberSchema = z
   });
 
 /** One snubber in a design (DESIGN.md §4.4 `design.snubbers[]`). */
-export const snubberSchema = z.discriminatedUnion('kind', [
-  rcSnubberSchema,
-  rcdTurnoffSnubberSchema,
-  rcdClampSnubberSchema,
-]);
+export const snubberSchema = z.discriminatedUnion('kind', [rcSnubberSchema, rcdTurnoffSnubberSchema, rcdClampSnubberSchema]);
 
 export const snubberListSchema = z.array(snubberSchema).max(50);
 
@@ -130,9 +125,9 @@ export type RingingInputRaw = z.input<typeof ringingInputSchema>;
 
 /** Every field but the kind optional and nullable; present values keep their rules. */
 function draftOf<T extends z.ZodRawShape>(shape: T) {
-  const loose = Object.fromEntries(
-    Object.entries(shape).map(([key, field]) => [key, key === 'kind' ? field : (field as z.ZodType).nullish()]),
-  ) as { [K in keyof T]: K extends 'kind' ? T[K] : z.ZodOptional<z.ZodNullable<T[K]>> };
+  const loose = Object.fromEntries(Object.entries(shape).map(([key, field]) => [key, key === 'kind' ? field : (field as z.ZodType).nullish()])) as {
+    [K in keyof T]: K extends 'kind' ? T[K] : z.ZodOptional<z.ZodNullable<T[K]>>;
+  };
   return z.object(loose);
 }
 

@@ -114,7 +114,10 @@ export const probeResistanceFieldSchema = z.preprocess(
         return z.NEVER;
       }
       if (parsed.value < PROBE_RESISTANCE_MIN) {
-        ctx.addIssue({ code: 'custom', message: `Probe resistance of ${formatQuantity(parsed.value, 'Ω')} is below 1 kΩ: not a measuring input — check the unit (e.g. 10 MΩ)` });
+        ctx.addIssue({
+          code: 'custom',
+          message: `Probe resistance of ${formatQuantity(parsed.value, 'Ω')} is below 1 kΩ: not a measuring input — check the unit (e.g. 10 MΩ)`,
+        });
         return z.NEVER;
       }
       return parsed.value;

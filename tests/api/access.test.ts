@@ -56,19 +56,34 @@ const TABLE: Row[] = [
   { method: 'post', path: () => '/api/dossiers', body: {}, expect: { anonymous: 401, admin: 400, engineer: 400, signedIn: 403 } },
   { method: 'get', path: (i) => `/api/dossiers/${i.dossierId}`, expect: { anonymous: 401, viewer: 404, signedIn: 200 } },
   { method: 'get', path: (i) => `/api/dossiers/${i.approvedDossierId}`, expect: { anonymous: 401, signedIn: 200 } },
-  { method: 'post', path: (i) => `/api/dossiers/${i.dossierId}/revisions`, body: { fromRevisionId: 'x' }, expect: { anonymous: 401, admin: 400, engineer: 400, signedIn: 403 } },
+  {
+    method: 'post',
+    path: (i) => `/api/dossiers/${i.dossierId}/revisions`,
+    body: { fromRevisionId: 'x' },
+    expect: { anonymous: 401, admin: 400, engineer: 400, signedIn: 403 },
+  },
   { method: 'get', path: (i) => `/api/revisions/${i.draftId}`, expect: { anonymous: 401, viewer: 404, signedIn: 200 } },
   { method: 'get', path: (i) => `/api/revisions/${i.inReviewId}`, expect: { anonymous: 401, viewer: 404, signedIn: 200 } },
   { method: 'get', path: (i) => `/api/revisions/${i.approvedId}`, expect: { anonymous: 401, signedIn: 200 } },
   // A version but neither design nor notes: past the guard, refused by validation (without a version: 428).
-  { method: 'patch', path: (i) => `/api/revisions/${i.draftId}`, body: { version: 1 }, expect: { anonymous: 401, admin: 400, engineer: 400, signedIn: 403 } },
+  {
+    method: 'patch',
+    path: (i) => `/api/revisions/${i.draftId}`,
+    body: { version: 1 },
+    expect: { anonymous: 401, admin: 400, engineer: 400, signedIn: 403 },
+  },
   // Authored by engineer2: the engineer and admin pass the role guard but are not the author.
   { method: 'post', path: (i) => `/api/revisions/${i.inReviewId}/submit`, expect: { anonymous: 401, admin: 403, engineer: 403, signedIn: 403 } },
   { method: 'get', path: (i) => `/api/revisions/${i.draftId}/diff`, expect: { anonymous: 401, signedIn: 404 } },
   { method: 'get', path: (i) => `/api/revisions/${i.copiedDraftId}/diff`, expect: { anonymous: 401, viewer: 404, signedIn: 200 } },
   { method: 'post', path: (i) => `/api/revisions/${i.inReviewId}/decision`, body: {}, expect: { anonymous: 401, reviewer: 400, signedIn: 403 } },
   // Approving is a signature: without the password the reviewer is refused (401), before anything changes.
-  { method: 'post', path: (i) => `/api/revisions/${i.inReviewId}/decision`, body: { decision: 'approve' }, expect: { anonymous: 401, reviewer: 401, signedIn: 403 } },
+  {
+    method: 'post',
+    path: (i) => `/api/revisions/${i.inReviewId}/decision`,
+    body: { decision: 'approve' },
+    expect: { anonymous: 401, reviewer: 401, signedIn: 403 },
+  },
   { method: 'post', path: (i) => `/api/revisions/${i.inReviewId}/comments`, body: {}, expect: { anonymous: 401, viewer: 403, signedIn: 400 } },
   { method: 'get', path: () => '/api/reviews', expect: { anonymous: 401, admin: 200, reviewer: 200, signedIn: 403 } },
   { method: 'get', path: (i) => `/api/audit?dossierId=${i.dossierId}`, expect: { anonymous: 401, admin: 200, reviewer: 200, signedIn: 403 } },
@@ -102,14 +117,23 @@ beforeAll(async () => {
   await author.post(`/api/revisions/${first}/submit`);
   const other = (await author.post('/api/dossiers').send({ productId, title: 'Access table draft', requirement: demoRequirement })).body;
   const users = (await agents.get('admin')!.get('/api/users')).body as Array<{ id: string; email: string }>;
-  const evidence = await author.post(`/api/revisions/${other.revisions[0].id}/evidence`).field('kind', 'other').attach('file', Buffer.from('bench log'), 'log.txt');
+  const evidence = await author
+    .post(`/api/revisions/${other.revisions[0].id}/evidence`)
+    .field('kind', 'other')
+    .attach('file', Buffer.from('bench log'), 'log.txt');
 
   const signed = (await author.post('/api/dossiers').send({ productId, title: 'Access table approved', requirement: demoRequirement })).body;
   const approvedId = signed.revisions[0].id;
   await saveDraft(author, approvedId, { design: demoDesign });
-  const approvedEvidence = await author.post(`/api/revisions/${approvedId}/evidence`).field('kind', 'other').attach('file', Buffer.from('test report'), 'report.txt');
+  const approvedEvidence = await author
+    .post(`/api/revisions/${approvedId}/evidence`)
+    .field('kind', 'other')
+    .attach('file', Buffer.from('test report'), 'report.txt');
   await author.post(`/api/revisions/${approvedId}/submit`);
-  const approval = await agents.get('reviewer')!.post(`/api/revisions/${approvedId}/decision`).send({ decision: 'approve', comment: 'ok', password: DEMO_PASSWORD });
+  const approval = await agents
+    .get('reviewer')!
+    .post(`/api/revisions/${approvedId}/decision`)
+    .send({ decision: 'approve', comment: 'ok', password: DEMO_PASSWORD });
   if (approval.status !== 200) throw new Error(`approval failed: ${approval.status} ${JSON.stringify(approval.body)}`);
   const copied = await author.post(`/api/dossiers/${signed.id}/revisions`).send({ fromRevisionId: approvedId });
   ids = {
@@ -129,7 +153,18 @@ afterAll(() => server.close());
 
 describe('access control table', () => {
   for (const row of TABLE) {
-    const placeholders = { productId: 1, dossierId: 1, draftId: 1, inReviewId: 2, evidenceId: 1, approvedId: 3, approvedEvidenceId: 2, approvedDossierId: 3, copiedDraftId: 4, userId: ':id' };
+    const placeholders = {
+      productId: 1,
+      dossierId: 1,
+      draftId: 1,
+      inReviewId: 2,
+      evidenceId: 1,
+      approvedId: 3,
+      approvedEvidenceId: 2,
+      approvedDossierId: 3,
+      copiedDraftId: 4,
+      userId: ':id',
+    };
     const label = `${row.method.toUpperCase()} ${row.path(placeholders)}${row.body === undefined ? '' : ` ${JSON.stringify(row.body)}`}`;
     it(label, async () => {
       const got: Record<string, number> = {};

@@ -17,14 +17,21 @@ describe('audit trail in words', () => {
     const engineer = await server.signIn('engineer');
     const reviewer = await server.signIn('reviewer');
     const products = (await engineer.get('/api/products')).body;
-    const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Audit words', requirement: demoRequirement })).body;
+    const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Audit words', requirement: demoRequirement }))
+      .body;
     const first = dossier.revisions[0].id as number;
     expect((await saveDraft(engineer, first, { design: demoDesign, notes: 'First cut.' })).status).toBe(200);
-    const upload = await engineer.post(`/api/revisions/${first}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(captureCsv(1.3)), 'bench-rev1.csv');
+    const upload = await engineer
+      .post(`/api/revisions/${first}/evidence`)
+      .field('kind', 'waveform')
+      .attach('file', Buffer.from(captureCsv(1.3)), 'bench-rev1.csv');
     expect(upload.status).toBe(201);
     await engineer.post(`/api/revisions/${first}/submit`).expect(200);
     await reviewer.post(`/api/revisions/${first}/comments`).send({ body: 'Which probe?' }).expect(201);
-    await reviewer.post(`/api/revisions/${first}/decision`).send({ decision: 'return', comment: 'Name the probe and its input resistance.' }).expect(200);
+    await reviewer
+      .post(`/api/revisions/${first}/decision`)
+      .send({ decision: 'return', comment: 'Name the probe and its input resistance.' })
+      .expect(200);
     const second = (await engineer.post(`/api/dossiers/${dossier.id}/revisions`).send({ fromRevisionId: first }).expect(201)).body;
     const copied = second.evidence[0].id as number;
     await engineer.delete(`/api/evidence/${copied}`).expect(200);
@@ -32,7 +39,9 @@ describe('audit trail in words', () => {
     const audit = (await reviewer.get(`/api/audit?dossierId=${dossier.id}`).expect(200)).body;
     const revisions = (await reviewer.get(`/api/dossiers/${dossier.id}`)).body.revisions as Array<{ id: number; number: number }>;
     const numbers = new Map(revisions.map((r) => [r.id, r.number]));
-    const sentences = (audit.events as Parameters<typeof auditSentence>[0][]).map((e) => auditSentence(e, { revisionNumber: (id) => numbers.get(id) }));
+    const sentences = (audit.events as Parameters<typeof auditSentence>[0][]).map((e) =>
+      auditSentence(e, { revisionNumber: (id) => numbers.get(id) }),
+    );
 
     expect(sentences).toEqual([
       'Jonas Lindqvist created the dossier “Audit words”.',
@@ -59,11 +68,11 @@ describe('audit trail in words', () => {
 
   it('when an admin changes an account, then the sentence names the person and what changed', () => {
     const names = { userName: (id: string) => (id === 'u1' ? 'Jonas Lindqvist' : undefined) };
-    expect(auditSentence({ action: 'user.update', actorName: 'Ada Admin', subjectType: 'user', subjectId: 'u1', payload: { role: 'reviewer' } }, names)).toBe(
-      'Ada Admin made Jonas Lindqvist reviewer.',
-    );
-    expect(auditSentence({ action: 'user.update', actorName: 'Ada Admin', subjectType: 'user', subjectId: 'u1', payload: { disabled: true } }, names)).toBe(
-      'Ada Admin disabled the account of Jonas Lindqvist.',
-    );
+    expect(
+      auditSentence({ action: 'user.update', actorName: 'Ada Admin', subjectType: 'user', subjectId: 'u1', payload: { role: 'reviewer' } }, names),
+    ).toBe('Ada Admin made Jonas Lindqvist reviewer.');
+    expect(
+      auditSentence({ action: 'user.update', actorName: 'Ada Admin', subjectType: 'user', subjectId: 'u1', payload: { disabled: true } }, names),
+    ).toBe('Ada Admin disabled the account of Jonas Lindqvist.');
   });
 });

@@ -84,7 +84,7 @@ describe('another connection holds the write lock', () => {
     expect((await engineer.patch(`/api/revisions/${id}`).send({ version: 2, notes: 'after the lock' })).status).toBe(200);
   });
 
-  it('when the lock is taken while a submit\'s mail is being delivered, then the server stays up and the mail is delivered once, after the lock', async () => {
+  it("when the lock is taken while a submit's mail is being delivered, then the server stays up and the mail is delivered once, after the lock", async () => {
     const { engineer, id } = await newDraft(server, 'Mail meets a lock', demoDesign);
     const submitted = await engineer.post(`/api/revisions/${id}/submit`);
     expect(submitted.status).toBe(200);
@@ -123,8 +123,12 @@ describe('the process itself', () => {
     try {
       running.child.kill('SIGUSR2');
       const deadline = Date.now() + 10_000;
-      while (!running.logs.some((l) => l.msg === 'unexpected rejection; still serving') && Date.now() < deadline) await new Promise((r) => setTimeout(r, 50));
-      expect(running.logs.find((l) => l.msg === 'unexpected rejection; still serving')).toMatchObject({ level: 50, err: { message: 'escaped every handler (test)' } });
+      while (!running.logs.some((l) => l.msg === 'unexpected rejection; still serving') && Date.now() < deadline)
+        await new Promise((r) => setTimeout(r, 50));
+      expect(running.logs.find((l) => l.msg === 'unexpected rejection; still serving')).toMatchObject({
+        level: 50,
+        err: { message: 'escaped every handler (test)' },
+      });
       const health = await fetch(`${running.url}/api/health`);
       expect(await health.json()).toEqual({ ok: true });
       expect(running.child.exitCode).toBeNull();

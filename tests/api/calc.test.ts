@@ -13,7 +13,10 @@ beforeAll(async () => {
 });
 afterAll(() => server.close());
 
-const withBank = (capacitors: Record<string, unknown>) => ({ requirement: demoRequirement, design: { ...demoDesign, capacitors: { ...demoDesign.capacitors, ...capacitors } } });
+const withBank = (capacitors: Record<string, unknown>) => ({
+  requirement: demoRequirement,
+  design: { ...demoDesign, capacitors: { ...demoDesign.capacitors, ...capacitors } },
+});
 
 describe('POST /api/calc/discharge', () => {
   it('answers the result of a complete design with every check saying what decided it', async () => {
@@ -27,10 +30,18 @@ describe('POST /api/calc/discharge', () => {
     ['zero capacitance', withBank({ capacitance: 0 }), 'design.capacitors.capacitance'],
     ['negative capacitance', withBank({ capacitance: -4.7e-4 }), 'design.capacitors.capacitance'],
     ['capacitance as text', withBank({ capacitance: '470u' }), 'design.capacitors.capacitance'],
-    ['NaN (null in JSON) where a number belongs', { requirement: { ...demoRequirement, safeVoltage: null }, design: demoDesign }, 'requirement.safeVoltage'],
+    [
+      'NaN (null in JSON) where a number belongs',
+      { requirement: { ...demoRequirement, safeVoltage: null }, design: demoDesign },
+      'requirement.safeVoltage',
+    ],
     ['an absurd 1e30 F bank', withBank({ capacitance: 1e30 }), 'design.capacitors.capacitance'],
     ['a fractional count', withBank({ series: 1.5 }), 'design.capacitors.series'],
-    ['zero resistance', { requirement: demoRequirement, design: { ...demoDesign, bleeder: { ...demoDesign.bleeder, resistance: 0 } } }, 'design.bleeder.resistance'],
+    [
+      'zero resistance',
+      { requirement: demoRequirement, design: { ...demoDesign, bleeder: { ...demoDesign.bleeder, resistance: 0 } } },
+      'design.bleeder.resistance',
+    ],
   ];
   for (const [what, body, path] of nonsense) {
     it(`answers 400 naming ${path} for ${what}`, async () => {
@@ -41,7 +52,10 @@ describe('POST /api/calc/discharge', () => {
   }
 
   it('answers 400, not 500, for Infinity smuggled as a huge literal and for a body that is not an object', async () => {
-    const huge = await engineer.post('/api/calc/discharge').set('Content-Type', 'application/json').send('{"requirement":{"safeVoltage":60,"maxTime":1e999},"design":{}}');
+    const huge = await engineer
+      .post('/api/calc/discharge')
+      .set('Content-Type', 'application/json')
+      .send('{"requirement":{"safeVoltage":60,"maxTime":1e999},"design":{}}');
     expect(huge.status).toBe(400);
     expect(huge.body.error.fields.map((f: { path: string }) => f.path)).toContain('requirement.maxTime');
     const array = await engineer.post('/api/calc/discharge').send([1, 2, 3]);
@@ -49,7 +63,9 @@ describe('POST /api/calc/discharge', () => {
   });
 
   it('treats a bus already at or below the safe voltage as valid input and says so', async () => {
-    const res = await engineer.post('/api/calc/discharge').send({ requirement: demoRequirement, design: { ...demoDesign, bus: { nominalVoltage: 40, maxVoltage: 48 } } });
+    const res = await engineer
+      .post('/api/calc/discharge')
+      .send({ requirement: demoRequirement, design: { ...demoDesign, bus: { nominalVoltage: 40, maxVoltage: 48 } } });
     expect(res.status).toBe(200);
     const time = res.body.checks.find((c: { id: string }) => c.id === 'discharge-time');
     expect(time.value).toBe(0);
@@ -83,7 +99,9 @@ describe('POST /api/calc/discharge', () => {
       expect(Math.abs(at(p.t, 'vWorst') - p.vWorst)).toBeLessThanOrEqual(allowed);
     }
     const times = chartCurve.map((p) => p.t);
-    expect(times).toEqual(expect.arrayContaining([chart.nominal.timeToSafe, chart.worstCase.timeToSafe, chart.worstCase.tau, demoRequirement.maxTime]));
+    expect(times).toEqual(
+      expect.arrayContaining([chart.nominal.timeToSafe, chart.worstCase.timeToSafe, chart.worstCase.tau, demoRequirement.maxTime]),
+    );
     expect(chart.checks).toEqual(full.body.checks);
     const bad = await engineer.post('/api/calc/discharge?curve=every').send(body);
     expect(bad.status).toBe(400);

@@ -17,7 +17,16 @@ let dataDir: string;
 beforeAll(async () => {
   dataDir = mkdtempSync(join(tmpdir(), 'vf-cluster-'));
   cluster = await startCluster(
-    { ...process.env, NODE_ENV: 'test', PORT: '0', HOST: '127.0.0.1', VOLTFALL_DATA_DIR: dataDir, FAKE_SMTP_PORT: '0', LOG_LEVEL: 'silent', SIGN_IN_LIMIT_PER_15_MIN: '1000' },
+    {
+      ...process.env,
+      NODE_ENV: 'test',
+      PORT: '0',
+      HOST: '127.0.0.1',
+      VOLTFALL_DATA_DIR: dataDir,
+      FAKE_SMTP_PORT: '0',
+      LOG_LEVEL: 'silent',
+      SIGN_IN_LIMIT_PER_15_MIN: '1000',
+    },
     2,
   );
   db = await openDatabase(dataDir, { migrate: false });
@@ -41,7 +50,8 @@ describe('a cluster of two workers', () => {
     expect(cluster.workers()).toHaveLength(2);
     const engineer = await signIn('engineer');
     const products = (await engineer.get('/api/products')).body;
-    const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Cluster story', requirement: demoRequirement })).body;
+    const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Cluster story', requirement: demoRequirement }))
+      .body;
     const id = dossier.revisions[0].id;
     // A new dossier's first draft is at version 1.
     expect((await engineer.patch(`/api/revisions/${id}`).send({ design: demoDesign, version: 1 })).status).toBe(200);
@@ -61,12 +71,23 @@ describe('a cluster of two workers', () => {
     const engineer = await signIn('engineer');
     const products = (await engineer.get('/api/products')).body;
     const dossiers = await Promise.all(
-      Array.from({ length: 8 }, (_, i) => engineer.post('/api/dossiers').send({ productId: products[0].id, title: `Concurrent ${i}`, requirement: demoRequirement })),
+      Array.from({ length: 8 }, (_, i) =>
+        engineer.post('/api/dossiers').send({ productId: products[0].id, title: `Concurrent ${i}`, requirement: demoRequirement }),
+      ),
     );
     expect(dossiers.map((r) => r.status)).toEqual(Array(8).fill(201));
-    const saves = await Promise.all(dossiers.map((d) => engineer.patch(`/api/revisions/${d.body.revisions[0].id}`).send({ design: demoDesign, notes: `note ${d.body.id}`, version: 1 })));
+    const saves = await Promise.all(
+      dossiers.map((d) =>
+        engineer.patch(`/api/revisions/${d.body.revisions[0].id}`).send({ design: demoDesign, notes: `note ${d.body.id}`, version: 1 }),
+      ),
+    );
     expect(saves.map((r) => r.status)).toEqual(Array(8).fill(200));
-    const notes = await db('revision').whereIn('id', dossiers.map((d) => d.body.revisions[0].id)).pluck('notes');
+    const notes = await db('revision')
+      .whereIn(
+        'id',
+        dossiers.map((d) => d.body.revisions[0].id),
+      )
+      .pluck('notes');
     expect(notes.sort()).toEqual(dossiers.map((d) => `note ${d.body.id}`).sort());
   });
 });

@@ -28,7 +28,11 @@ describe('versions of a draft', () => {
     const notes = await engineer.patch(`/api/revisions/${id}`).send({ version: 2, notes: 'Bleeders across the bank.' });
     expect(notes.body.version).toBe(3);
 
-    const added = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'other').field('version', '3').attach('file', Buffer.from('bench log 1'), 'log.txt');
+    const added = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'other')
+      .field('version', '3')
+      .attach('file', Buffer.from('bench log 1'), 'log.txt');
     expect(added.status).toBe(201);
     expect(added.body.revisionVersion).toBe(4);
     const removed = await engineer.delete(`/api/evidence/${added.body.id}?version=4`);
@@ -54,7 +58,10 @@ describe('versions of a draft', () => {
     for (const bad of ['1', 1.5, 0, -1, null, [1]]) {
       const res = await engineer.patch(`/api/revisions/${id}`).send({ version: bad, notes: 'x' });
       expect(res.status, JSON.stringify(bad)).toBe(400);
-      expect(res.body.error.fields.map((f: { path: string }) => f.path), JSON.stringify(bad)).toContain('version');
+      expect(
+        res.body.error.fields.map((f: { path: string }) => f.path),
+        JSON.stringify(bad),
+      ).toContain('version');
     }
     expect(await version(engineer, id)).toBe(1);
   });
@@ -109,14 +116,21 @@ describe('evidence and submission follow the same rule', () => {
     await engineer.patch(`/api/revisions/${id}`).send({ version: 1, notes: 'moved on' });
     const before = (await engineer.get(`/api/revisions/${id}`)).body.evidence.length;
 
-    const upload = await engineer.post(`/api/revisions/${id}/evidence`).field('version', '1').field('kind', 'other').attach('file', Buffer.from('stale upload'), 'stale.txt');
+    const upload = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('version', '1')
+      .field('kind', 'other')
+      .attach('file', Buffer.from('stale upload'), 'stale.txt');
     expect(upload.status).toBe(409);
     expect(upload.body.error.code).toBe('stale_version');
     expect(upload.body.current.version).toBe(2);
     expect((await engineer.get(`/api/revisions/${id}`)).body.evidence).toHaveLength(before);
 
     // Without a version the upload is taken as before (the field is optional for uploads).
-    const fresh = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'other').attach('file', Buffer.from('current upload'), 'current.txt');
+    const fresh = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'other')
+      .attach('file', Buffer.from('current upload'), 'current.txt');
     expect(fresh.status).toBe(201);
     const removal = await engineer.delete(`/api/evidence/${fresh.body.id}?version=2`);
     expect(removal.status).toBe(409);
@@ -135,7 +149,7 @@ describe('evidence and submission follow the same rule', () => {
 });
 
 describe('versions in the database itself', () => {
-  it('when someone changes versions with SQL, then a draft\'s may move and a submitted revision\'s may not', async () => {
+  it("when someone changes versions with SQL, then a draft's may move and a submitted revision's may not", async () => {
     const { engineer, id } = await draft('Versions in SQL');
     const other = await draft('Versions in SQL, submitted');
     await other.engineer.patch(`/api/revisions/${other.id}`).send({ version: 1, design: demoDesign });
@@ -178,7 +192,11 @@ describe('comments belong to the review', () => {
     const raw = new Database(join(server.dataDir, 'voltfall.sqlite3'));
     try {
       const author = raw.prepare("SELECT id FROM user WHERE email = 'reviewer@fennel.test'").get() as { id: string };
-      expect(() => raw.prepare("INSERT INTO review_comment (revision_id, author_id, body, created_at) VALUES (?, ?, 'sql remark', 'now')").run(approved.id, author.id)).toThrow(/frozen/);
+      expect(() =>
+        raw
+          .prepare("INSERT INTO review_comment (revision_id, author_id, body, created_at) VALUES (?, ?, 'sql remark', 'now')")
+          .run(approved.id, author.id),
+      ).toThrow(/frozen/);
     } finally {
       raw.close();
     }

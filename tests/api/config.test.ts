@@ -3,7 +3,9 @@ import { loadConfig } from '../../server/config';
 
 describe('configuration', () => {
   it('when production lacks real mail and signing settings, then the server refuses to start and names them', () => {
-    expect(() => loadConfig({ NODE_ENV: 'production' })).toThrow(/SMTP_URL, SIGNING_P12_PATH, SIGNING_P12_PASSWORD, TSA_URL \(or TSA_URL=none to sign without trusted time\), VOLTFALL_PUBLIC_URL/);
+    expect(() => loadConfig({ NODE_ENV: 'production' })).toThrow(
+      /SMTP_URL, SIGNING_P12_PATH, SIGNING_P12_PASSWORD, TSA_URL \(or TSA_URL=none to sign without trusted time\), VOLTFALL_PUBLIC_URL/,
+    );
   });
 
   it('when production names no time-stamping authority, then it refuses to start unless TSA_URL=none says so explicitly', () => {

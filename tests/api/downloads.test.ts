@@ -34,7 +34,9 @@ async function upload(bytes: Buffer, name: string) {
 }
 
 // Magic numbers from the formats' specifications (PNG: ISO/IEC 15948 signature; PDF: "%PDF-"; PE: "MZ").
-const PNG = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52, 0, 0, 0, 1, 0, 0, 0, 1, 8, 6, 0, 0, 0, 0x1f, 0x15, 0xc4, 0x89]);
+const PNG = Buffer.from([
+  0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52, 0, 0, 0, 1, 0, 0, 0, 1, 8, 6, 0, 0, 0, 0x1f, 0x15, 0xc4, 0x89,
+]);
 const PDF = Buffer.from('%PDF-1.4\n1 0 obj << /Type /Catalog >> endobj\ntrailer << /Root 1 0 R >>\n%%EOF\n');
 const EXE = Buffer.concat([Buffer.from('MZ'), Buffer.alloc(64, 0), Buffer.from('PE\0\0')]);
 
@@ -103,7 +105,9 @@ describe('file names', () => {
     const stored = await upload(Buffer.from('x'), 'a"b; d=e 50% 🔌.txt');
     expect(stored.originalName).toBe('a"b; d=e 50% 🔌.txt');
     const res = await binary(engineer.get(`/api/evidence/${stored.id}/file`));
-    expect(res.headers['content-disposition']).toBe(`attachment; filename="a\\"b; d=e 50% _.txt"; filename*=UTF-8''a%22b%3B%20d%3De%2050%25%20%F0%9F%94%8C.txt`);
+    expect(res.headers['content-disposition']).toBe(
+      `attachment; filename="a\\"b; d=e 50% _.txt"; filename*=UTF-8''a%22b%3B%20d%3De%2050%25%20%F0%9F%94%8C.txt`,
+    );
   });
 
   it('when a name carries a path, a line break or a bidirectional override, then those are dropped and the rest kept', async () => {
@@ -116,7 +120,13 @@ describe('file names', () => {
 describe('caching', () => {
   it('when a signed-in user reads the API, then every answer says no-store', async () => {
     const stored = await upload(Buffer.from('cache me not'), 'c.txt');
-    for (const path of [`/api/revisions/${draftId}`, '/api/dossiers', `/api/evidence/${stored.id}/file`, `/api/revisions/${draftId}/dossier.pdf`, '/api/auth/me']) {
+    for (const path of [
+      `/api/revisions/${draftId}`,
+      '/api/dossiers',
+      `/api/evidence/${stored.id}/file`,
+      `/api/revisions/${draftId}/dossier.pdf`,
+      '/api/auth/me',
+    ]) {
       const res = await binary(engineer.get(path));
       expect(res.status, path).toBe(200);
       expect(res.headers['cache-control'], path).toBe('no-store');

@@ -38,7 +38,10 @@ describe('evidence uploads', () => {
   it('when a capture is uploaded to a draft, then it is analysed and a measured check joins the verdict', async () => {
     const { engineer, id } = await draft('Capture story');
     // τ = 1.5 s from 622 V: 60 V is reached at 1.5·ln(622/60) = 3.508 s (V0·e^(−t/τ), common practice).
-    const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(622, 1.5, 8)), 'bench-01.csv');
+    const res = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'waveform')
+      .attach('file', Buffer.from(capture(622, 1.5, 8)), 'bench-01.csv');
     expect(res.status).toBe(201);
     expect(res.body.sha256).toMatch(/^[0-9a-f]{64}$/);
     expect(res.body.mediaType).toBe('text/csv');
@@ -70,14 +73,21 @@ describe('evidence uploads', () => {
     expect(res.body.analysis.t0Source).toBe('marker');
     expect(res.body.analysis.t0).toBeCloseTo(0.2, 2);
     expect(res.body.analysis.tau).toBeCloseTo(0.8, 2);
-    const missing = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').field('channel', 'CH9').attach('file', Buffer.from(rows.join('\n')), 'x.csv');
+    const missing = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'waveform')
+      .field('channel', 'CH9')
+      .attach('file', Buffer.from(rows.join('\n')), 'x.csv');
     expect(missing.status).toBe(422);
     expect(missing.body.error.message).toMatch(/CH9/);
   });
 
   it('when a capture never reaches the safe voltage, then it is stored as a failing measurement, not an error', async () => {
     const { engineer, id } = await draft('Slow capture');
-    const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(622, 50, 8)), 'slow.csv');
+    const res = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'waveform')
+      .attach('file', Buffer.from(capture(622, 50, 8)), 'slow.csv');
     expect(res.status).toBe(201);
     expect(res.body.analysis.timeToSafe).toBeNull();
     const rev = (await engineer.get(`/api/revisions/${id}`)).body;
@@ -99,7 +109,13 @@ describe('evidence uploads', () => {
     const before = evidenceFiles().length;
     const cases: Array<[string, Buffer, string, number, RegExp]> = [
       ['waveform', Buffer.alloc(0), 'empty.csv', 422, /empty/i],
-      ['waveform', Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52]), 'renamed.csv', 422, /not a text capture/],
+      [
+        'waveform',
+        Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52]),
+        'renamed.csv',
+        422,
+        /not a text capture/,
+      ],
       ['waveform', Buffer.from('name,comment\nfoo,bar\nbaz,qux\n'), 'words.csv', 422, /.+/],
       ['waveform', Buffer.from('t,v\n0,600\n0.2,400\n0.1,300\n0.3,200\n0.4,100\n'), 'backwards.csv', 422, /.+/],
       ['image', Buffer.from('just text'), 'photo.jpg', 422, /not a PNG or JPEG/],
@@ -126,13 +142,19 @@ describe('evidence uploads', () => {
     expect(res.body.analysis.encoding).toBe('utf-16le');
     expect(Math.abs(res.body.analysis.timeToSafe - 1.5 * Math.log(622 / 60))).toBeLessThan(0.01 * 3.508);
     expect(Math.abs(res.body.analysis.tau - 1.5)).toBeLessThan(0.015);
-    const twin = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(622, 1.5, 8)), 'bench-utf8.csv');
+    const twin = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'waveform')
+      .attach('file', Buffer.from(capture(622, 1.5, 8)), 'bench-utf8.csv');
     expect(twin.body.analysis.timeToSafe).toBe(res.body.analysis.timeToSafe);
-    const file = await engineer.get(`/api/evidence/${res.body.id}/file`).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (c: Buffer) => chunks.push(c));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const file = await engineer
+      .get(`/api/evidence/${res.body.id}/file`)
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
     expect(Buffer.compare(file.body as Buffer, utf16)).toBe(0);
   });
 
@@ -150,8 +172,13 @@ describe('evidence uploads', () => {
       const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', bytes, name);
       expect(res.status, name).toBe(422);
       expect(res.body.error.code, name).toBe('wrong_content');
-      expect(res.body.error.message, name).toMatch(/Export the capture from the instrument as CSV \(comma or semicolon separated\), TSV \(tab separated\) or TXT/);
-      expect(res.body.error.fields.map((f: { path: string }) => f.path), name).toEqual(['file']);
+      expect(res.body.error.message, name).toMatch(
+        /Export the capture from the instrument as CSV \(comma or semicolon separated\), TSV \(tab separated\) or TXT/,
+      );
+      expect(
+        res.body.error.fields.map((f: { path: string }) => f.path),
+        name,
+      ).toEqual(['file']);
     }
     expect((await engineer.get(`/api/revisions/${id}`)).body.evidence).toHaveLength(0);
     expect(evidenceFiles().length).toBe(before);
@@ -161,22 +188,36 @@ describe('evidence uploads', () => {
   it('when a capture holds probe-side volts, then the voltage scale entered with it is applied and recorded', async () => {
     const { engineer, id } = await draft('Scaled capture');
     // 6.22 V in the file behind a 100:1 probe the instrument did not account for: 622 V at the bus.
-    const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').field('scale', '100').attach('file', Buffer.from(capture(6.22, 1.5, 8)), 'probe-side.csv');
+    const res = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'waveform')
+      .field('scale', '100')
+      .attach('file', Buffer.from(capture(6.22, 1.5, 8)), 'probe-side.csv');
     expect(res.status).toBe(201);
     expect(res.body.analysis.scale).toBe(100);
     expect(Math.abs(res.body.analysis.v0 - 622)).toBeLessThan(6.22);
     expect(Math.abs(res.body.analysis.timeToSafe - 1.5 * Math.log(622 / 60))).toBeLessThan(0.01 * 3.508);
     for (const scale of ['abc', '0', '-10']) {
-      const bad = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').field('scale', scale).attach('file', Buffer.from(capture(6.22, 1.5, 8)), 'x.csv');
+      const bad = await engineer
+        .post(`/api/revisions/${id}/evidence`)
+        .field('kind', 'waveform')
+        .field('scale', scale)
+        .attach('file', Buffer.from(capture(6.22, 1.5, 8)), 'x.csv');
       expect(bad.status, scale).toBe(400);
-      expect(bad.body.error.fields.map((f: { path: string }) => f.path), scale).toEqual(['scale']);
+      expect(
+        bad.body.error.fields.map((f: { path: string }) => f.path),
+        scale,
+      ).toEqual(['scale']);
     }
   });
 
   it('when a negative-rail capture is slower than the limit, then the measured check fails instead of reading safe at once', async () => {
     const { engineer, id } = await draft('Negative rail');
     // −622 V with τ = 3 s: |v| reaches 60 V after 3·ln(622/60) = 7.02 s, beyond the demo's time limit.
-    const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(-622, 3, 9)), 'dc-minus.csv');
+    const res = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'waveform')
+      .attach('file', Buffer.from(capture(-622, 3, 9)), 'dc-minus.csv');
     expect(res.status).toBe(201);
     expect(res.body.analysis.polarity).toBe('negative');
     expect(Math.abs(res.body.analysis.timeToSafe - 3 * Math.log(622 / 60))).toBeLessThan(0.01 * 7.02);
@@ -186,11 +227,17 @@ describe('evidence uploads', () => {
     expect(rev.results.verdict).toBe('fails');
   });
 
-  it('when a file is over its kind\'s limit, then 413 and nothing is kept', async () => {
+  it("when a file is over its kind's limit, then 413 and nothing is kept", async () => {
     const { engineer, id } = await draft('Too big');
-    const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'other').attach('file', Buffer.alloc(700 * 1024, 65), 'big.txt');
+    const res = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'other')
+      .attach('file', Buffer.alloc(700 * 1024, 65), 'big.txt');
     expect(res.status).toBe(413);
-    const huge = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.alloc(3 * 1024 * 1024, 65), 'huge.csv');
+    const huge = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'waveform')
+      .attach('file', Buffer.alloc(3 * 1024 * 1024, 65), 'huge.csv');
     expect(huge.status).toBe(413);
     expect(tmpFiles()).toEqual([]);
     expect((await engineer.get(`/api/revisions/${id}`)).body.evidence).toHaveLength(0);
@@ -215,9 +262,15 @@ describe('evidence uploads', () => {
 
   it('when a revision is submitted, then evidence can be neither added nor removed', async () => {
     const { engineer, id } = await draft('Frozen evidence');
-    const up = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(622, 1.2, 6)), 'x.csv');
+    const up = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'waveform')
+      .attach('file', Buffer.from(capture(622, 1.2, 6)), 'x.csv');
     await engineer.post(`/api/revisions/${id}/submit`);
-    const add = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(capture(622, 1.1, 6)), 'y.csv');
+    const add = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'waveform')
+      .attach('file', Buffer.from(capture(622, 1.1, 6)), 'y.csv');
     expect(add.status).toBe(409);
     const del = await engineer.delete(`/api/evidence/${up.body.id}`);
     expect(del.status).toBe(409);
@@ -226,15 +279,21 @@ describe('evidence uploads', () => {
   it('when evidence is downloaded, then the stored bytes come back with the sniffed type', async () => {
     const { engineer, id } = await draft('Download');
     const text = capture(300, 0.4, 3);
-    const up = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', Buffer.from(text), '../../etc/evil name.csv');
+    const up = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'waveform')
+      .attach('file', Buffer.from(text), '../../etc/evil name.csv');
     expect(up.body.originalName).toBe('evil name.csv');
     // A draft's evidence is for the team (a viewer gets 404 until the revision is approved).
     const reviewer = await server.signIn('reviewer');
-    const file = await reviewer.get(`/api/evidence/${up.body.id}/file`).buffer(true).parse((res, cb) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const file = await reviewer
+      .get(`/api/evidence/${up.body.id}/file`)
+      .buffer(true)
+      .parse((res, cb) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
     expect(file.status).toBe(200);
     expect((file.body as Buffer).toString()).toBe(text);
   });

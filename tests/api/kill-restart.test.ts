@@ -23,7 +23,11 @@ beforeAll(async () => {
   // The first approval on a new data folder creates the development signing certificate; get that done.
   const engineer = await sessionCookie(server.url, 'engineer@fennel.test');
   const reviewer = await sessionCookie(server.url, 'reviewer@fennel.test');
-  await api(reviewer, 'POST', `/revisions/${await revisionInReview(engineer, 'First approval')}/decision`, { decision: 'approve', comment: 'creates the certificate', password: DEMO_PASSWORD });
+  await api(reviewer, 'POST', `/revisions/${await revisionInReview(engineer, 'First approval')}/decision`, {
+    decision: 'approve',
+    comment: 'creates the certificate',
+    password: DEMO_PASSWORD,
+  });
 }, 300_000);
 afterAll(async () => {
   await server?.kill();
@@ -68,7 +72,9 @@ async function checkDataFolder(revisionId: number): Promise<'approved' | 'in_rev
   const db = new Database(join(dataDir, 'voltfall.sqlite3'));
   try {
     expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
-    const referenced = new Set((db.prepare('SELECT DISTINCT storage_key FROM evidence').all() as Array<{ storage_key: string }>).map((r) => r.storage_key));
+    const referenced = new Set(
+      (db.prepare('SELECT DISTINCT storage_key FROM evidence').all() as Array<{ storage_key: string }>).map((r) => r.storage_key),
+    );
     const signed = new Set((db.prepare('SELECT storage_key FROM signed_dossier').all() as Array<{ storage_key: string }>).map((r) => r.storage_key));
     expect(readdirSync(join(dataDir, 'evidence', 'tmp'))).toEqual([]);
     expect(readdirSync(join(dataDir, 'evidence')).filter((f) => f !== 'tmp' && !referenced.has(f))).toEqual([]);
@@ -76,7 +82,8 @@ async function checkDataFolder(revisionId: number): Promise<'approved' | 'in_rev
 
     const rev = db.prepare('SELECT status FROM revision WHERE id = ?').get(revisionId) as { status: 'approved' | 'in_review' | 'draft' };
     const decision = db.prepare('SELECT decision FROM review_decision WHERE revision_id = ?').get(revisionId) as { decision: string } | undefined;
-    const pdf = db.prepare('SELECT sha256, storage_key FROM signed_dossier WHERE revision_id = ?').get(revisionId) as { sha256: string; storage_key: string } | undefined;
+    const pdf = db.prepare('SELECT sha256, storage_key FROM signed_dossier WHERE revision_id = ?').get(revisionId) as
+      { sha256: string; storage_key: string } | undefined;
     if (rev.status === 'approved') {
       expect(decision?.decision).toBe('approve');
       expect(pdf).toBeTruthy();
@@ -153,7 +160,8 @@ describe('SIGKILL and restart on the same data folder', () => {
     reviewer = await sessionCookie(server.url, 'reviewer@fennel.test');
     for (const id of ids) {
       const rev = await api(reviewer, 'GET', `/revisions/${id}`);
-      if (rev.status === 'in_review') await api(reviewer, 'POST', `/revisions/${id}/decision`, { decision: 'approve', comment: 'after the restart', password: DEMO_PASSWORD });
+      if (rev.status === 'in_review')
+        await api(reviewer, 'POST', `/revisions/${id}/decision`, { decision: 'approve', comment: 'after the restart', password: DEMO_PASSWORD });
       expect(await checkDataFolder(id)).toBe('approved');
     }
     expect(existsSync(join(dataDir, 'voltfall.sqlite3'))).toBe(true);

@@ -40,7 +40,7 @@ const hoursAgo = (file: string, hours: number) => {
 };
 
 describe('temporary files', () => {
-  it('when the server starts on a folder with leftovers of a crashed process, then they are removed and a live worker\'s upload is kept', async () => {
+  it("when the server starts on a folder with leftovers of a crashed process, then they are removed and a live worker's upload is kept", async () => {
     const dataDir = mkdtempSync(join(tmpdir(), 'vf-restart-'));
     await (await startTestServer({}, {}, { dataDir })).close();
     const dead = deadPid();
@@ -120,7 +120,10 @@ describe('stored files nobody references', () => {
     expect(existsSync(file)).toBe(true);
 
     // A day and a bit later (the default grace period is 24 h).
-    await server.ctx.db('evidence_release').where({ sha256: added.body.sha256 }).update({ released_at: new Date(Date.now() - 25 * 3600_000).toISOString() });
+    await server.ctx
+      .db('evidence_release')
+      .where({ sha256: added.body.sha256 })
+      .update({ released_at: new Date(Date.now() - 25 * 3600_000).toISOString() });
     expect(await server.housekeeping.sweep(false)).toMatchObject({ orphanEvidence: 1 });
     expect(existsSync(file)).toBe(false);
   });
@@ -138,7 +141,10 @@ describe('stored files nobody references', () => {
 
   it('when a submitted revision references a file that a later draft drops, then the file is never removed', async () => {
     const { engineer, id, dossierId } = await newDraft(server, 'Frozen reference', demoDesign);
-    const added = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'other').attach('file', Buffer.from('kept for the record'), 'k.txt');
+    const added = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'other')
+      .attach('file', Buffer.from('kept for the record'), 'k.txt');
     await engineer.post(`/api/revisions/${id}/submit`);
     const reviewer = await server.signIn('reviewer');
     await reviewer.post(`/api/revisions/${id}/decision`).send({ decision: 'return', comment: 'Add the capture.' });

@@ -22,7 +22,11 @@ let engineer: supertest.Agent;
 let reviewer: supertest.Agent;
 let products: Array<{ id: number; name: string; modelNumber: string }>;
 
-async function createDossier(title: string, productId = products[0].id, requirement: object = demoRequirement): Promise<{ id: number; draftId: number }> {
+async function createDossier(
+  title: string,
+  productId = products[0].id,
+  requirement: object = demoRequirement,
+): Promise<{ id: number; draftId: number }> {
   const res = await engineer.post('/api/dossiers').send({ productId, title, requirement });
   expect(res.status).toBe(201);
   return { id: res.body.id, draftId: res.body.revisions[0].id };
@@ -135,7 +139,7 @@ describe('GET /api/dossiers pages', () => {
   it('matches q against the title, the product name, the model number and the requirement reference, ignoring case', async () => {
     const byTitle = await createDossier('Heatsink Bleeder QZX-title');
     const byReference = await createDossier('Plain title', products[0].id, { ...demoRequirement, reference: 'Clause 7.3 of plan QZX-ref' });
-    const search = async (q: string) => ((await engineer.get(`/api/dossiers?q=${encodeURIComponent(q)}&limit=200`)).body as Page<DossierItem>);
+    const search = async (q: string) => (await engineer.get(`/api/dossiers?q=${encodeURIComponent(q)}&limit=200`)).body as Page<DossierItem>;
     expect((await search('qzx-TITLE')).items.map((d) => d.id)).toEqual([byTitle.id]);
     expect((await search('qzx-ref')).items.map((d) => d.id)).toEqual([byReference.id]);
     const byProduct = await search(products[1].name.slice(0, 8).toUpperCase());
@@ -159,7 +163,11 @@ describe('the review queue and the Overview lists page the same way', () => {
       submitted.push(draftId);
     }
     const { items, totals } = await walk<{ id: number; submittedAt: string; verdict: string; mayDecide: boolean }>(reviewer, '/api/reviews', 2);
-    const expected = await server.ctx.db('revision').where({ status: 'in_review' }).orderBy([{ column: 'submitted_at' }, { column: 'id' }]).select('id', 'verdict');
+    const expected = await server.ctx
+      .db('revision')
+      .where({ status: 'in_review' })
+      .orderBy([{ column: 'submitted_at' }, { column: 'id' }])
+      .select('id', 'verdict');
     expect(items.map((r) => r.id)).toEqual(expected.map((r) => r.id));
     expect(items.map((r) => r.verdict)).toEqual(expected.map((r) => r.verdict));
     expect(totals.every((t) => t === expected.length)).toBe(true);
@@ -172,7 +180,12 @@ describe('the review queue and the Overview lists page the same way', () => {
 
   it('answers the first page of every Overview list and pages one list on its own', async () => {
     const overview = (await engineer.get('/api/overview?limit=2')).body as Record<string, Page<{ id: number; status: string }>>;
-    const drafts = await server.ctx.db('revision').join('user', 'user.id', 'revision.author_id').where({ 'user.email': 'engineer@fennel.test', status: 'draft' }).count({ n: '*' }).first();
+    const drafts = await server.ctx
+      .db('revision')
+      .join('user', 'user.id', 'revision.author_id')
+      .where({ 'user.email': 'engineer@fennel.test', status: 'draft' })
+      .count({ n: '*' })
+      .first();
     expect(overview.myDrafts.total).toBe(Number(drafts!.n));
     expect(overview.myDrafts.items).toHaveLength(2);
     expect(overview.awaitingMyReview).toEqual({ items: [], nextCursor: null, total: 0 });

@@ -14,7 +14,8 @@ describe('mail outage', () => {
   it('when the mail server is down at submission, then the revision is still submitted and the e-mail is delivered on a later attempt', async () => {
     const engineer = await server.signIn('engineer');
     const products = (await engineer.get('/api/products')).body;
-    const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Outage story', requirement: demoRequirement })).body;
+    const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Outage story', requirement: demoRequirement }))
+      .body;
     const id = dossier.revisions[0].id;
     await saveDraft(engineer, id, { design: demoDesign });
 
@@ -36,7 +37,10 @@ describe('mail outage', () => {
     // The mail server comes back; the retry is due.
     const restarted = await startFakeSmtp(server.ctx.db, port);
     try {
-      await server.ctx.db('mail_queue').where({ id: waiting.id }).update({ next_attempt_at: new Date(0).toISOString() });
+      await server.ctx
+        .db('mail_queue')
+        .where({ id: waiting.id })
+        .update({ next_attempt_at: new Date(0).toISOString() });
       const mail = await server.waitForMail((m) => m.subject.includes('Outage story'));
       expect(mail.to).toContain('reviewer@fennel.test');
       expect((await server.ctx.db('mail_queue').where({ id: waiting.id }).first()).status).toBe('sent');

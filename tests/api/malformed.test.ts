@@ -28,7 +28,9 @@ describe('multipart uploads that are not complete forms', () => {
   const post = () => engineer.post(`/api/revisions/${draftId}/evidence`);
 
   it('when the multipart content type has no boundary, then 400', async () => {
-    const res = await post().set('Content-Type', 'multipart/form-data').send(Buffer.from(part('kind', 'other')));
+    const res = await post()
+      .set('Content-Type', 'multipart/form-data')
+      .send(Buffer.from(part('kind', 'other')));
     expectErrorShape(res, 400, 'invalid_upload');
   });
 
@@ -41,7 +43,9 @@ describe('multipart uploads that are not complete forms', () => {
   });
 
   it('when the part headers are garbage, then 400', async () => {
-    const res = await post().set('Content-Type', `multipart/form-data; boundary=${BOUNDARY}`).send(Buffer.from(`--${BOUNDARY}\r\n\u0000\u0001 not a header\r\n\r\nx\r\n--${BOUNDARY}--\r\n`));
+    const res = await post()
+      .set('Content-Type', `multipart/form-data; boundary=${BOUNDARY}`)
+      .send(Buffer.from(`--${BOUNDARY}\r\n\u0000\u0001 not a header\r\n\r\nx\r\n--${BOUNDARY}--\r\n`));
     expect(res.status).toBe(400);
   });
 
@@ -65,14 +69,22 @@ describe('JSON bodies', () => {
 
   it('when JSON nests deeper than 32 levels, then 400 too_deep before anything walks it, however deep', async () => {
     for (const depth of [33, 1_000, 1_000_000]) {
-      const res = await engineer.post('/api/calc/discharge').set('Content-Type', 'application/json').send(`{"design":${nested(depth)}}`);
+      const res = await engineer
+        .post('/api/calc/discharge')
+        .set('Content-Type', 'application/json')
+        .send(`{"design":${nested(depth)}}`);
       expectErrorShape(res, 400, 'too_deep');
     }
     // 32 levels are parsed and judged by the schema instead.
-    const shallow = await engineer.post('/api/calc/discharge').set('Content-Type', 'application/json').send(`{"design":${nested(31)}}`);
+    const shallow = await engineer
+      .post('/api/calc/discharge')
+      .set('Content-Type', 'application/json')
+      .send(`{"design":${nested(31)}}`);
     expectErrorShape(shallow, 400, 'invalid_input');
     // Brackets inside strings are text, not nesting.
-    const inString = await engineer.patch(`/api/revisions/${draftId}`).send({ version: (await engineer.get(`/api/revisions/${draftId}`)).body.version, notes: `[[{${'['.repeat(100)}` });
+    const inString = await engineer
+      .patch(`/api/revisions/${draftId}`)
+      .send({ version: (await engineer.get(`/api/revisions/${draftId}`)).body.version, notes: `[[{${'['.repeat(100)}` });
     expect(inString.status).toBe(200);
   });
 
@@ -82,13 +94,20 @@ describe('JSON bodies', () => {
       expectErrorShape(res, 400, 'invalid_input');
       expect(res.body.error.fields.map((f: { path: string }) => f.path)).toContain('email');
     }
-    const res = await server.anonymous().post('/api/auth/sign-in').send({ email: 'engineer@fennel.test', password: { toString: 'voltfall-demo' } });
+    const res = await server
+      .anonymous()
+      .post('/api/auth/sign-in')
+      .send({ email: 'engineer@fennel.test', password: { toString: 'voltfall-demo' } });
     expectErrorShape(res, 400, 'invalid_input');
   });
 
   it('when the body is not JSON, not UTF-8 or not an object, then 4xx with the error shape', async () => {
     expectErrorShape(await engineer.post('/api/calc/discharge').set('Content-Type', 'application/json').send('{"design":'), 400, 'malformed_json');
-    expectErrorShape(await engineer.post('/api/calc/discharge').set('Content-Type', 'application/json').send('"just a string"'), 400, 'malformed_json');
+    expectErrorShape(
+      await engineer.post('/api/calc/discharge').set('Content-Type', 'application/json').send('"just a string"'),
+      400,
+      'malformed_json',
+    );
     const latin1 = await engineer.post('/api/calc/discharge').set('Content-Type', 'application/json; charset=latin1').send('{}');
     expect(latin1.status).toBe(415);
     expectErrorShape(await engineer.post('/api/products').send([{ name: 'x' }]), 400, 'invalid_input');

@@ -36,9 +36,16 @@ interface CheckJson {
   detail: string;
   evidenceId?: number;
   evidenceSha256?: string;
-  referral?: { measuredTime: number | null; start: string; unloadedTau: number | null; probeResistance: number | null; loadingCapacitance: number | null };
+  referral?: {
+    measuredTime: number | null;
+    start: string;
+    unloadedTau: number | null;
+    probeResistance: number | null;
+    loadingCapacitance: number | null;
+  };
 }
-const checksOf = async (engineer: Awaited<ReturnType<TestServer['signIn']>>, id: number): Promise<CheckJson[]> => (await engineer.get(`/api/revisions/${id}`)).body.results.checks;
+const checksOf = async (engineer: Awaited<ReturnType<TestServer['signIn']>>, id: number): Promise<CheckJson[]> =>
+  (await engineer.get(`/api/revisions/${id}`)).body.results.checks;
 
 // demoDesign: 622 V maximum bus; 2 × 3.3 µF at −5 % → C_min = 6.27 µF for the loading correction.
 const C_MIN = 2 * 3.3e-6 * 0.95;
@@ -82,7 +89,11 @@ describe('a capture is referred to the maximum bus and to the unloaded circuit',
       ['2,200k', /can be read two ways: write 2200k or 2.2k/],
     ];
     for (const [text, message] of cases) {
-      const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').field('probeResistance', text).attach('file', capture(622, 1.5, 8), 'x.csv');
+      const res = await engineer
+        .post(`/api/revisions/${id}/evidence`)
+        .field('kind', 'waveform')
+        .field('probeResistance', text)
+        .attach('file', capture(622, 1.5, 8), 'x.csv');
       expect(res.status, text).toBe(400);
       expect(res.body.error.fields, text).toEqual([{ path: 'probeResistance', message: expect.stringMatching(message) }]);
     }
@@ -91,7 +102,11 @@ describe('a capture is referred to the maximum bus and to the unloaded circuit',
 
   it('when no probe resistance is given, then the checks say that instrument loading was not corrected', async () => {
     const { engineer, id } = await draft('No probe');
-    const res = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').field('probeResistance', '').attach('file', capture(622, 1.5, 8), 'bench.csv');
+    const res = await engineer
+      .post(`/api/revisions/${id}/evidence`)
+      .field('kind', 'waveform')
+      .field('probeResistance', '')
+      .attach('file', capture(622, 1.5, 8), 'bench.csv');
     expect(res.status).toBe(201);
     expect(res.body.analysis.probeResistance).toBeNull();
     const time = (await checksOf(engineer, id)).find((c) => c.id.startsWith('measured-discharge:'))!;
@@ -102,7 +117,10 @@ describe('a capture is referred to the maximum bus and to the unloaded circuit',
 describe('one check per capture, paired across revisions by the file', () => {
   it('when a capture is carried into revision 2, then its checks keep their ids in the diff; when it is replaced, the diff shows removed and added, never paired', async () => {
     const { engineer, id: first } = await draft('Carried capture');
-    const a = await engineer.post(`/api/revisions/${first}/evidence`).field('kind', 'waveform').attach('file', capture(622, 1.5, 8), 'bench-a.csv');
+    const a = await engineer
+      .post(`/api/revisions/${first}/evidence`)
+      .field('kind', 'waveform')
+      .attach('file', capture(622, 1.5, 8), 'bench-a.csv');
     expect(a.status).toBe(201);
     const keyA = a.body.sha256.slice(0, 12);
     expect((await engineer.post(`/api/revisions/${first}/submit`)).status).toBe(200);
@@ -130,7 +148,10 @@ describe('one check per capture, paired across revisions by the file', () => {
     // The file is replaced by a new capture of a slower sample.
     const carriedRow = second.evidence[0].id;
     expect((await engineer.delete(`/api/evidence/${carriedRow}`)).status).toBe(200);
-    const b = await engineer.post(`/api/revisions/${second.id}/evidence`).field('kind', 'waveform').attach('file', capture(700, 1.9, 10), 'bench-b.csv');
+    const b = await engineer
+      .post(`/api/revisions/${second.id}/evidence`)
+      .field('kind', 'waveform')
+      .attach('file', capture(700, 1.9, 10), 'bench-b.csv');
     expect(b.status).toBe(201);
     const keyB = b.body.sha256.slice(0, 12);
     const replaced = (await engineer.get(`/api/revisions/${second.id}/diff`)).body;
@@ -172,7 +193,9 @@ describe('single-fault condition in a dossier and in the stateless check', () =>
   it('when the stateless check gets singleFault, then it answers the fault checks; bad single-fault fields get 400 naming them', async () => {
     const engineer = await server.signIn('engineer');
     const design = { ...demoDesign, bleeder: { ...demoDesign.bleeder, parallel: 2, resistance: 50e3 } };
-    const ok = await engineer.post('/api/calc/discharge').send({ requirement: { ...demoRequirement, singleFault: true, singleFaultMaxTime: 10 }, design });
+    const ok = await engineer
+      .post('/api/calc/discharge')
+      .send({ requirement: { ...demoRequirement, singleFault: true, singleFaultMaxTime: 10 }, design });
     expect(ok.status).toBe(200);
     expect(ok.body.checks.find((c: CheckJson) => c.id === 'single-fault-time')).toMatchObject({ limit: 10, pass: true });
     const off = await engineer.post('/api/calc/discharge').send({ requirement: demoRequirement, design });

@@ -37,10 +37,14 @@ describe('a viewer and unfinished work', () => {
 
   it("when a viewer asks for a draft's evidence file, then 404; once the revision is approved, the file is theirs to read", async () => {
     const products = (await engineer.get('/api/products')).body;
-    const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Evidence on the way to approval', requirement: demoRequirement })).body;
+    const dossier = (
+      await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Evidence on the way to approval', requirement: demoRequirement })
+    ).body;
     const id = dossier.revisions[0].id;
     await saveDraft(engineer, id, { design: demoDesign });
-    const evidence = (await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'other').attach('file', Buffer.from('bench notes'), 'notes.txt')).body;
+    const evidence = (
+      await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'other').attach('file', Buffer.from('bench notes'), 'notes.txt')
+    ).body;
     expect((await viewer.get(`/api/evidence/${evidence.id}/file`)).status).toBe(404);
     expect((await viewer.get(`/api/dossiers/${dossier.id}`)).status).toBe(404);
 
@@ -109,7 +113,9 @@ describe('what a viewer lists', () => {
   it('a diff for a viewer compares approved revisions only: by default the previous approved one, never a returned one', async () => {
     const products = (await engineer.get('/api/products')).body;
     const reviewer = await server.signIn('reviewer');
-    const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Approved, returned, approved', requirement: demoRequirement })).body;
+    const dossier = (
+      await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Approved, returned, approved', requirement: demoRequirement })
+    ).body;
     const r1 = dossier.revisions[0].id;
     await saveDraft(engineer, r1, { design: demoDesign });
     await engineer.post(`/api/revisions/${r1}/submit`);

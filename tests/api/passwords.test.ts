@@ -28,7 +28,13 @@ describe('the password policy', () => {
     });
   }
 
-  for (const password of ['tangerine-orbit-kettle-41', 'correct horse battery', 'Kq7#mW2p!xZ9', 'sun-pebble-cinder-ox', 'ferry lantern under nine maples']) {
+  for (const password of [
+    'tangerine-orbit-kettle-41',
+    'correct horse battery',
+    'Kq7#mW2p!xZ9',
+    'sun-pebble-cinder-ox',
+    'ferry lantern under nine maples',
+  ]) {
     it(`accepts ${JSON.stringify(password)}`, () => {
       expect(passwordProblem(password, owner)).toBeNull();
     });
@@ -54,7 +60,11 @@ describe('choosing a password through the API', () => {
     const token = /token=([\w-]+)/.exec(mail.text)![1];
     const anon = server.anonymous();
 
-    for (const [password, why] of [['noorhaddad123456', /your name/], ['password123456', /common passwords/], ['x'.repeat(129), /at most 128/]] as const) {
+    for (const [password, why] of [
+      ['noorhaddad123456', /your name/],
+      ['password123456', /common passwords/],
+      ['x'.repeat(129), /at most 128/],
+    ] as const) {
       const res = await anon.post('/api/auth/set-password').send({ token, password });
       expect(res.status, password).toBe(400);
       expect(res.body.error.fields).toEqual([{ path: 'password', message: expect.stringMatching(why) }]);

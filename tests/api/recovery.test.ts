@@ -24,11 +24,16 @@ const mailsTo = async (email: string) => {
 async function nthLink(email: string, n: number): Promise<string> {
   await server.ctx.background.settled();
   let mail: Mail | undefined;
-  await expect.poll(async () => {
-    await server.mail.flush();
-    mail = ((await server.ctx.db('mail_outbox').where('to', 'like', `%${email}%`).orderBy('id')) as Mail[])[n - 1];
-    return mail !== undefined;
-  }, { timeout: 10_000 }).toBe(true);
+  await expect
+    .poll(
+      async () => {
+        await server.mail.flush();
+        mail = ((await server.ctx.db('mail_outbox').where('to', 'like', `%${email}%`).orderBy('id')) as Mail[])[n - 1];
+        return mail !== undefined;
+      },
+      { timeout: 10_000 },
+    )
+    .toBe(true);
   return tokenOf(mail!);
 }
 
@@ -161,7 +166,8 @@ describe('forgot password', () => {
     const limited = await startTestServer({}, { SIGN_IN_LIMIT_PER_15_MIN: '2' }, { clock: new FakeClock() });
     try {
       const answers = [];
-      for (const email of ['a@fennel.test', 'b@fennel.test', 'c@fennel.test']) answers.push(await limited.anonymous().post('/api/auth/forgot-password').send({ email }));
+      for (const email of ['a@fennel.test', 'b@fennel.test', 'c@fennel.test'])
+        answers.push(await limited.anonymous().post('/api/auth/forgot-password').send({ email }));
       expect(answers.map((a) => a.status)).toEqual([202, 202, 429]);
       expect(answers[2].headers['retry-after']).toBe(String(15 * 60));
       expect(answers[2].body.error.message).toMatch(/Too many reset requests/);

@@ -14,7 +14,7 @@ const logged = () => lines.join('');
 const requestLines = () => lines.map((l) => JSON.parse(l) as Record<string, unknown>).filter((l) => l.msg === 'request');
 
 describe('the request log', () => {
-  it("when a user signs in and works, then neither the session token nor the password appears in the log", async () => {
+  it('when a user signs in and works, then neither the session token nor the password appears in the log', async () => {
     const agent = server.anonymous();
     const signIn = await agent.post('/api/auth/sign-in').send({ email: 'engineer@fennel.test', password: DEMO_PASSWORD });
     expect(signIn.status).toBe(200);
@@ -23,7 +23,10 @@ describe('the request log', () => {
     expect((await agent.get('/api/auth/me')).status).toBe(200);
     expect((await agent.get('/api/dossiers')).status).toBe(200);
     // A wrong password and a body that is not JSON are logged as requests too, without their bodies.
-    await server.anonymous().post('/api/auth/sign-in').send({ email: 'engineer@fennel.test', password: `${DEMO_PASSWORD}-wrong` });
+    await server
+      .anonymous()
+      .post('/api/auth/sign-in')
+      .send({ email: 'engineer@fennel.test', password: `${DEMO_PASSWORD}-wrong` });
     await agent.post('/api/products').set('Content-Type', 'application/json').send(`{"name":"${DEMO_PASSWORD}"`);
 
     expect(logged()).not.toContain(token);
@@ -50,7 +53,13 @@ describe('the request log', () => {
     const line = requestLines().find((l) => l.route === '/api/dossiers/:id' && l.userId === me.id);
     expect(line).toBeDefined();
     const { level, time, pid, hostname, msg, ...fields } = line!;
-    expect({ level, msg, hasTime: typeof time === 'number', hasPid: typeof pid === 'number', hasHost: typeof hostname === 'string' }).toEqual({ level: 30, msg: 'request', hasTime: true, hasPid: true, hasHost: true });
+    expect({ level, msg, hasTime: typeof time === 'number', hasPid: typeof pid === 'number', hasHost: typeof hostname === 'string' }).toEqual({
+      level: 30,
+      msg: 'request',
+      hasTime: true,
+      hasPid: true,
+      hasHost: true,
+    });
     expect(Object.keys(fields).sort()).toEqual(['method', 'ms', 'route', 'status', 'userId']);
     expect(fields).toMatchObject({ method: 'GET', status: 200 });
     expect(logged()).not.toContain('secret-looking-query');
@@ -60,7 +69,10 @@ describe('the request log', () => {
 
   it('when anything else logs an object with secret-named fields, then they are censored', () => {
     server.ctx.log.info(
-      { req: { headers: { cookie: 'voltfall_session=abc123', authorization: 'Bearer xyz789', 'set-cookie': 'voltfall_session=def456' } }, body: { password: 'hunter2-hunter2', newPassword: 'n3w-pa55', token: 'tok-1', nested: { resetToken: 'tok-2' } } },
+      {
+        req: { headers: { cookie: 'voltfall_session=abc123', authorization: 'Bearer xyz789', 'set-cookie': 'voltfall_session=def456' } },
+        body: { password: 'hunter2-hunter2', newPassword: 'n3w-pa55', token: 'tok-1', nested: { resetToken: 'tok-2' } },
+      },
       'probe',
     );
     const probe = JSON.parse(lines.at(-1)!) as { req: { headers: Record<string, string> }; body: Record<string, unknown> };

@@ -60,7 +60,10 @@ describe('the reason of a return', () => {
     const { engineer, reviewer, dossier, first } = await returnedRevision('No return after approval');
     const second = (await engineer.post(`/api/dossiers/${dossier.id}/revisions`).send({ fromRevisionId: first })).body;
     await engineer.post(`/api/revisions/${second.id}/submit`).expect(200);
-    await reviewer.post(`/api/revisions/${second.id}/decision`).send({ decision: 'approve', comment: 'Margin shown.', password: DEMO_PASSWORD }).expect(200);
+    await reviewer
+      .post(`/api/revisions/${second.id}/decision`)
+      .send({ decision: 'approve', comment: 'Margin shown.', password: DEMO_PASSWORD })
+      .expect(200);
     const third = (await engineer.post(`/api/dossiers/${dossier.id}/revisions`).send({})).body;
     expect((await engineer.get(`/api/revisions/${third.id}`)).body.answersReturn).toBeNull();
     // The approved second revision still names the return it answered.

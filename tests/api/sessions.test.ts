@@ -16,7 +16,8 @@ beforeAll(async () => {
 });
 afterAll(() => server.close());
 
-const sessionRows = (userEmail: string) => server.ctx.db('session').join('user', 'user.id', 'session.user_id').where('user.email', userEmail).select('session.*');
+const sessionRows = (userEmail: string) =>
+  server.ctx.db('session').join('user', 'user.id', 'session.user_id').where('user.email', userEmail).select('session.*');
 
 describe('session lifetime', () => {
   it('when a user signs in, then the cookie lives as long as the absolute lifetime (Max-Age 12 h) and is HttpOnly, SameSite=Lax, path /', async () => {

@@ -55,7 +55,12 @@ describe('approval as a signature', () => {
     const reviewer = await server.signIn('reviewer');
     const res = await reviewer.post(`/api/revisions/${id}/decision`).send({ decision: 'approve', comment: 'Checked.', password: DEMO_PASSWORD });
     expect(res.status).toBe(200);
-    expect(res.body.decision).toMatchObject({ signerName: 'Marta Kowalczyk', signerRole: 'reviewer', meaning: 'approved as reviewer', reviewer: { email: 'reviewer@fennel.test' } });
+    expect(res.body.decision).toMatchObject({
+      signerName: 'Marta Kowalczyk',
+      signerRole: 'reviewer',
+      meaning: 'approved as reviewer',
+      reviewer: { email: 'reviewer@fennel.test' },
+    });
     expect(Date.parse(res.body.decision.at)).not.toBeNaN();
     expect(await revisionState(id)).toEqual({ status: 'approved', decisions: 1, signed: 1 });
     const row = await server.ctx.db('review_decision').where({ revision_id: id }).first();
@@ -66,7 +71,10 @@ describe('approval as a signature', () => {
     expect(audit.verified).toBe(true);
     // The viewer reads the same signature record on the approved revision.
     const viewer = await server.signIn('viewer');
-    expect((await viewer.get(`/api/revisions/${id}`)).body.decision).toMatchObject({ signerName: 'Marta Kowalczyk', meaning: 'approved as reviewer' });
+    expect((await viewer.get(`/api/revisions/${id}`)).body.decision).toMatchObject({
+      signerName: 'Marta Kowalczyk',
+      meaning: 'approved as reviewer',
+    });
   });
 
   it('when a reviewer returns a revision, then no password is needed and the record says "returned for changes as reviewer"', async () => {
@@ -81,7 +89,8 @@ describe('approval as a signature', () => {
     const id = await submittedRevision('Signature: throttled');
     const reviewer = await server.signIn('reviewer');
     // Five refusals open the wait (the sign-in above cleared the earlier ones).
-    for (let i = 0; i < 5; i++) expect((await reviewer.post(`/api/revisions/${id}/decision`).send({ decision: 'approve', password: `guess-${i}` })).status).toBe(401);
+    for (let i = 0; i < 5; i++)
+      expect((await reviewer.post(`/api/revisions/${id}/decision`).send({ decision: 'approve', password: `guess-${i}` })).status).toBe(401);
     const held = await reviewer.post(`/api/revisions/${id}/decision`).send({ decision: 'approve', password: DEMO_PASSWORD });
     expect(held.status).toBe(429);
     expect(held.body.error.message).toMatch(/Too many signing attempts/);

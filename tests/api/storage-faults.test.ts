@@ -45,7 +45,11 @@ async function uploadText(server: ServerProcess, cookie: string, revisionId: num
   const form = new FormData();
   form.append('kind', 'other');
   form.append('file', new Blob([Buffer.alloc(bytes, 'x')]), 'bench-log.txt');
-  const res = await fetch(`${server.url}/api/revisions/${revisionId}/evidence`, { method: 'POST', headers: { Cookie: cookie, Origin: server.url }, body: form });
+  const res = await fetch(`${server.url}/api/revisions/${revisionId}/evidence`, {
+    method: 'POST',
+    headers: { Cookie: cookie, Origin: server.url },
+    body: form,
+  });
   const text = await res.text();
   return { status: res.status, text, body: JSON.parse(text) };
 }
@@ -71,7 +75,7 @@ function fillUp(file: string): void {
 }
 
 describe('a full disk', () => {
-  it('when the data folder\'s disk is full, then uploads and saves answer 507 insufficient_storage, reads go on, and writes resume once space is freed', async () => {
+  it("when the data folder's disk is full, then uploads and saves answer 507 insufficient_storage, reads go on, and writes resume once space is freed", async () => {
     const dataDir = tempFolder('vf-full-');
     const server = await start(dataDir, `mount -t tmpfs -o size=24m tmpfs "${dataDir}"`);
     const cookie = await sessionCookie(server.url, 'engineer@fennel.test');
@@ -123,7 +127,11 @@ describe('a read-only data folder', () => {
     expect(save.headers.get('retry-after')).toBe('60');
     const upload = await uploadText(server, cookie, draft.id, 1024);
     expect(upload.status).toBe(503);
-    const signIn = await fetch(`${server.url}/api/auth/sign-in`, { method: 'POST', headers: { 'Content-Type': 'application/json', Origin: server.url }, body: JSON.stringify({ email: 'viewer@fennel.test', password: 'voltfall-demo' }) });
+    const signIn = await fetch(`${server.url}/api/auth/sign-in`, {
+      method: 'POST',
+      headers: { 'Content-Type': 'application/json', Origin: server.url },
+      body: JSON.stringify({ email: 'viewer@fennel.test', password: 'voltfall-demo' }),
+    });
     expect(signIn.status).toBe(503);
 
     const read = await call(server, cookie, 'GET', `/revisions/${draft.id}`);
@@ -156,6 +164,11 @@ describe('start-up on a folder it cannot use', () => {
   it('when the configured data folder does not exist, then the server exits with one line naming the path and why', async () => {
     const missing = join(tempFolder('vf-missing-'), 'volume', 'voltfall');
     const out = await runUntilExit(missing);
-    expectOneLine(out, new RegExp(`^Voltfall cannot start: data folder ${missing} does not exist \\(VOLTFALL_DATA_DIR\\); create it or mount the volume, then start again$`));
+    expectOneLine(
+      out,
+      new RegExp(
+        `^Voltfall cannot start: data folder ${missing} does not exist \\(VOLTFALL_DATA_DIR\\); create it or mount the volume, then start again$`,
+      ),
+    );
   });
 });

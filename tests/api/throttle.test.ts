@@ -24,7 +24,14 @@ const attempt = (s: TestServer, email: string, password: string, forwardedFor?: 
 };
 
 // Padded and case-varied spellings of one account; the schema trims and lower-cases them all alike.
-const spellings = (email: string) => [email, ` ${email.toUpperCase()} `, `\t${email[0].toUpperCase()}${email.slice(1)}`, `${email}   `, email.replace('fennel', 'FENNEL'), `  ${email}`];
+const spellings = (email: string) => [
+  email,
+  ` ${email.toUpperCase()} `,
+  `\t${email[0].toUpperCase()}${email.slice(1)}`,
+  `${email}   `,
+  email.replace('fennel', 'FENNEL'),
+  `  ${email}`,
+];
 
 describe('sign-in throttle per account', () => {
   it('when five wrong passwords come in five spellings of one e-mail, then the sixth try waits (429, Retry-After) even with the right password', async () => {
@@ -54,7 +61,10 @@ describe('sign-in throttle per account', () => {
   it('when the account does not exist, then the answers are the same: five 401s with the same body, then the same 429', async () => {
     const known: Array<{ status: number; body: unknown; retry: unknown }> = [];
     const unknown: typeof known = [];
-    for (const [email, into] of [['reviewer@fennel.test', known], ['nobody-here@fennel.test', unknown]] as const) {
+    for (const [email, into] of [
+      ['reviewer@fennel.test', known],
+      ['nobody-here@fennel.test', unknown],
+    ] as const) {
       for (const spelling of spellings(email)) {
         const res = await attempt(server, spelling, 'not-the-password');
         into.push({ status: res.status, body: res.body, retry: res.headers['retry-after'] });
@@ -65,7 +75,9 @@ describe('sign-in throttle per account', () => {
   });
 
   it('when twenty wrong guesses arrive at once, then exactly five are judged and the rest wait', async () => {
-    const results = await Promise.all(Array.from({ length: 20 }, (_, i) => attempt(server, spellings('viewer@fennel.test')[i % 6], `parallel-guess-${i}`)));
+    const results = await Promise.all(
+      Array.from({ length: 20 }, (_, i) => attempt(server, spellings('viewer@fennel.test')[i % 6], `parallel-guess-${i}`)),
+    );
     const statuses = results.map((r) => r.status).sort();
     expect(statuses.filter((s) => s === 401)).toHaveLength(5);
     expect(statuses.filter((s) => s === 429)).toHaveLength(15);

@@ -26,7 +26,8 @@ describe('the verdict column follows the results', () => {
   it('when a draft is created, saved failing, saved passing and submitted, then the column matches the stored results every time', async () => {
     const engineer = await server.signIn('engineer');
     const products = (await engineer.get('/api/products')).body;
-    const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Verdict story', requirement: demoRequirement })).body;
+    const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title: 'Verdict story', requirement: demoRequirement }))
+      .body;
     const id = dossier.revisions[0].id as number;
     expect(await stored(id)).toEqual({ column: 'incomplete', json: 'incomplete' });
     await saveDraft(engineer, id, { design: failingDesign });
@@ -41,7 +42,12 @@ describe('the verdict column follows the results', () => {
 
   it('when anything writes a verdict that disagrees with the results, then the database refuses it', async () => {
     const draft = await server.ctx.db('revision').where({ status: 'draft' }).first('id');
-    await expect(server.ctx.db('revision').where({ id: draft.id }).update({ verdict: 'meets', results: JSON.stringify({ verdict: 'fails' }) })).rejects.toThrow(/verdict must match/);
+    await expect(
+      server.ctx
+        .db('revision')
+        .where({ id: draft.id })
+        .update({ verdict: 'meets', results: JSON.stringify({ verdict: 'fails' }) }),
+    ).rejects.toThrow(/verdict must match/);
   });
 
   it('when a revision is submitted, then its verdict is frozen with it', async () => {
@@ -81,11 +87,24 @@ describe('migration 006 fills the column for existing revisions', () => {
       ] as const;
       const ids: Record<string, number> = {};
       for (const [status, result] of cases) {
-        const [dossier] = await db('dossier').insert({ product_id: product.id, title: status, requirement: JSON.stringify(demoRequirement), created_by: userId, created_at: now }).returning('id');
-        const [rev] = await db('revision')
-          .insert({ dossier_id: dossier.id, number: 1, status: 'draft', design: '{}', results: result ? JSON.stringify(result) : '{}', engine_version: '1.0.0', author_id: userId, created_at: now, updated_at: now })
+        const [dossier] = await db('dossier')
+          .insert({ product_id: product.id, title: status, requirement: JSON.stringify(demoRequirement), created_by: userId, created_at: now })
           .returning('id');
-        if (status === 'in_review' || status === 'approved' || status === 'returned') await db('revision').where({ id: rev.id }).update({ status: 'in_review' });
+        const [rev] = await db('revision')
+          .insert({
+            dossier_id: dossier.id,
+            number: 1,
+            status: 'draft',
+            design: '{}',
+            results: result ? JSON.stringify(result) : '{}',
+            engine_version: '1.0.0',
+            author_id: userId,
+            created_at: now,
+            updated_at: now,
+          })
+          .returning('id');
+        if (status === 'in_review' || status === 'approved' || status === 'returned')
+          await db('revision').where({ id: rev.id }).update({ status: 'in_review' });
         if (status === 'approved' || status === 'returned') await db('revision').where({ id: rev.id }).update({ status });
         ids[status] = rev.id;
       }

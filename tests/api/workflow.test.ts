@@ -52,7 +52,9 @@ describe('the life of a revision', () => {
     expect(noComment.status).toBe(400);
     expect(noComment.body.error.fields[0].path).toBe('comment');
 
-    const returned = await reviewer.post(`/api/revisions/${draftId}/decision`).send({ decision: 'return', comment: 'Use the 85 °C TCR corner for R.' });
+    const returned = await reviewer
+      .post(`/api/revisions/${draftId}/decision`)
+      .send({ decision: 'return', comment: 'Use the 85 °C TCR corner for R.' });
     expect(returned.status).toBe(200);
     expect(returned.body.status).toBe('returned');
     const toAuthor = await server.waitForMail((m) => m.to.includes('engineer@fennel.test') && m.subject.includes('Return story'));
@@ -93,7 +95,9 @@ describe('the life of a revision', () => {
     expect(time.to.value).toBeLessThan(time.from.value);
 
     await engineer.post(`/api/revisions/${second.body.id}/submit`);
-    const approved = await reviewer.post(`/api/revisions/${second.body.id}/decision`).send({ decision: 'approve', comment: 'Meets the limit with margin.', password: DEMO_PASSWORD });
+    const approved = await reviewer
+      .post(`/api/revisions/${second.body.id}/decision`)
+      .send({ decision: 'approve', comment: 'Meets the limit with margin.', password: DEMO_PASSWORD });
     expect(approved.status).toBe(200);
     expect(approved.body.status).toBe('approved');
     expect(approved.body.decision).toMatchObject({
@@ -111,9 +115,21 @@ describe('snubbers across revisions', () => {
   it('when a snubber resistor changes in revision 2, then the diff names the snubber and shows the values in units', async () => {
     const { engineer, dossier, draftId } = await newDossier('Snubber diff');
     const snubber = {
-      name: 'R12/C7', location: 'across Q3', kind: 'rc', resistance: 82, capacitance: 330e-12, capacitanceTolerance: 0.1, powerRating: 0.5,
-      derating: 0.6, capacitorVoltageRating: 100, switchingVoltage: 48, overshoot: 0.3, switchingFrequency: 250e3, accessible: false,
-      parasiticInductance: 633e-9, parasiticCapacitance: 100e-12,
+      name: 'R12/C7',
+      location: 'across Q3',
+      kind: 'rc',
+      resistance: 82,
+      capacitance: 330e-12,
+      capacitanceTolerance: 0.1,
+      powerRating: 0.5,
+      derating: 0.6,
+      capacitorVoltageRating: 100,
+      switchingVoltage: 48,
+      overshoot: 0.3,
+      switchingFrequency: 250e3,
+      accessible: false,
+      parasiticInductance: 633e-9,
+      parasiticCapacitance: 100e-12,
     };
     const first = await saveDraft(engineer, draftId, { design: { ...demoDesign, snubbers: [snubber] } });
     expect(first.body.results.checks.map((c: { id: string }) => c.id)).toContain('snubber-power:0');
@@ -123,7 +139,9 @@ describe('snubbers across revisions', () => {
     const second = (await engineer.post(`/api/dossiers/${dossier.id}/revisions`).send({})).body;
     await saveDraft(engineer, second.id, { design: { ...demoDesign, snubbers: [{ ...snubber, resistance: 100 }] } });
     const diff = (await engineer.get(`/api/revisions/${second.id}/diff`)).body;
-    expect(diff.inputs).toEqual([expect.objectContaining({ path: 'snubbers[0].resistance', label: 'Snubber R12/C7: resistance', from: '82 Ω', to: '100 Ω' })]);
+    expect(diff.inputs).toEqual([
+      expect.objectContaining({ path: 'snubbers[0].resistance', label: 'Snubber R12/C7: resistance', from: '82 Ω', to: '100 Ω' }),
+    ]);
   });
 
   it('when a snubber is half typed, then the draft still saves and the verdict is incomplete', async () => {
@@ -156,7 +174,7 @@ describe('separation of duties and permissions', () => {
     expect(res.body.error.message).toMatch(/separation of duties/);
   });
 
-  it('when another engineer edits someone else\'s draft, then 403; a viewer cannot create anything', async () => {
+  it("when another engineer edits someone else's draft, then 403; a viewer cannot create anything", async () => {
     const { draftId } = await newDossier('Ownership');
     const other = await server.signIn('engineer2');
     const res = await saveDraft(other, draftId, { notes: 'not mine' });
@@ -170,7 +188,9 @@ describe('separation of duties and permissions', () => {
     await saveDraft(engineer, draftId, { design: failingDesign });
     await engineer.post(`/api/revisions/${draftId}/submit`);
     const reviewer = await server.signIn('reviewer');
-    const res = await reviewer.post(`/api/revisions/${draftId}/decision`).send({ decision: 'approve', comment: 'looks fine', password: DEMO_PASSWORD });
+    const res = await reviewer
+      .post(`/api/revisions/${draftId}/decision`)
+      .send({ decision: 'approve', comment: 'looks fine', password: DEMO_PASSWORD });
     expect(res.status).toBe(409);
     expect(res.body.error.message).toMatch(/cannot be approved: it fails Bleeder resistor dissipation/);
     expect((await engineer.get(`/api/revisions/${draftId}`)).body.status).toBe('in_review');
@@ -192,7 +212,9 @@ describe('separation of duties and permissions', () => {
   it('when design inputs are nonsense, then 400 names each field and nothing is saved', async () => {
     const { engineer, draftId } = await newDossier('Bad input');
     const before = (await engineer.get(`/api/revisions/${draftId}`)).body;
-    const res = await saveDraft(engineer, draftId, { design: { ...demoDesign, capacitors: { ...demoDesign.capacitors, capacitance: -1 }, bleeder: { ...demoDesign.bleeder, resistance: 'lots' } } });
+    const res = await saveDraft(engineer, draftId, {
+      design: { ...demoDesign, capacitors: { ...demoDesign.capacitors, capacitance: -1 }, bleeder: { ...demoDesign.bleeder, resistance: 'lots' } },
+    });
     expect(res.status).toBe(400);
     const paths = res.body.error.fields.map((f: { path: string }) => f.path);
     expect(paths).toEqual(expect.arrayContaining(['design.capacitors.capacitance', 'design.bleeder.resistance']));
@@ -212,7 +234,11 @@ describe('frozen in the database itself', () => {
       expect(() => raw.prepare("UPDATE revision SET status = 'draft' WHERE id = ?").run(draftId)).toThrow(/frozen/);
       expect(() => raw.prepare('DELETE FROM revision WHERE id = ?').run(draftId)).toThrow(/frozen/);
       expect(() =>
-        raw.prepare("INSERT INTO evidence (revision_id, kind, original_name, media_type, size, sha256, storage_key, uploaded_by, uploaded_at) VALUES (?, 'other', 'x', 'text/plain', 1, 'x', 'x', 'x', 'x')").run(draftId),
+        raw
+          .prepare(
+            "INSERT INTO evidence (revision_id, kind, original_name, media_type, size, sha256, storage_key, uploaded_by, uploaded_at) VALUES (?, 'other', 'x', 'text/plain', 1, 'x', 'x', 'x', 'x')",
+          )
+          .run(draftId),
       ).toThrow(/frozen/);
     } finally {
       raw.close();
@@ -234,7 +260,7 @@ describe('audit trail', () => {
     try {
       // Someone with write access to the file removes the guard trigger and rewrites history.
       raw.exec('DROP TRIGGER audit_event_no_update');
-      raw.prepare("UPDATE audit_event SET payload = '{\"title\":\"forged\"}' WHERE id = ?").run(target);
+      raw.prepare('UPDATE audit_event SET payload = \'{"title":"forged"}\' WHERE id = ?').run(target);
     } finally {
       raw.close();
     }

@@ -23,7 +23,10 @@ async function awaitingReview(title: string): Promise<{ id: number; product: str
   return { id, product: product.name };
 }
 
-for (const [label, viewport] of [['phone', PHONE], ['wide', WIDE]] as const) {
+for (const [label, viewport] of [
+  ['phone', PHONE],
+  ['wide', WIDE],
+] as const) {
   describe(`the approval dialog on a ${label} screen`, () => {
     it('states the meaning, refuses a wrong password on the field, and signs with the right one', async () => {
       const title = `Signature at ${label} width`;

@@ -11,7 +11,9 @@ beforeAll(async () => {
   const engineer = await browser.server.signIn('engineer');
   const productId = (await engineer.get('/api/products')).body[0].id;
   for (let i = 1; i <= 52; i += 1) {
-    const res = await engineer.post('/api/dossiers').send({ productId, title: `Bench unit ${String(i).padStart(2, '0')}`, requirement: demoRequirement });
+    const res = await engineer
+      .post('/api/dossiers')
+      .send({ productId, title: `Bench unit ${String(i).padStart(2, '0')}`, requirement: demoRequirement });
     if (i === 52) {
       await saveDraft(engineer, res.body.revisions[0].id, { design: demoDesign });
       await engineer.post(`/api/revisions/${res.body.revisions[0].id}/submit`);

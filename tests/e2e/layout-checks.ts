@@ -35,7 +35,8 @@ export function measure(page: Page): Promise<LayoutReport> {
       const style = getComputedStyle(el);
       // A container that clips or scrolls sideways still shifts its content when a child is focused.
       if (!['auto', 'scroll', 'hidden'].includes(style.overflowX)) continue;
-      if (el.scrollWidth > el.clientWidth + 1 && el.clientWidth > 0 && !el.closest('svg')) sideways.push(`${name(el)} ${el.scrollWidth} > ${el.clientWidth}`);
+      if (el.scrollWidth > el.clientWidth + 1 && el.clientWidth > 0 && !el.closest('svg'))
+        sideways.push(`${name(el)} ${el.scrollWidth} > ${el.clientWidth}`);
       if (el.scrollLeft > 0) sideways.push(`${name(el)} scrolled ${el.scrollLeft} px sideways`);
     }
     const outsideCard: string[] = [];
@@ -57,7 +58,9 @@ export function measure(page: Page): Promise<LayoutReport> {
       const r = el.getBoundingClientRect();
       const c = card.getBoundingClientRect();
       if (r.left < c.left - slack || r.right > c.right + slack || r.top < c.top - slack || r.bottom > c.bottom + slack) {
-        outsideCard.push(`text “${(el.textContent ?? '').slice(0, 40)}” at ${Math.round(r.left)}–${Math.round(r.right)} × ${Math.round(r.top)}–${Math.round(r.bottom)}, its card ${Math.round(c.left)}–${Math.round(c.right)} × ${Math.round(c.top)}–${Math.round(c.bottom)}`);
+        outsideCard.push(
+          `text “${(el.textContent ?? '').slice(0, 40)}” at ${Math.round(r.left)}–${Math.round(r.right)} × ${Math.round(r.top)}–${Math.round(r.bottom)}, its card ${Math.round(c.left)}–${Math.round(c.right)} × ${Math.round(c.top)}–${Math.round(c.bottom)}`,
+        );
       }
     }
     for (const el of Array.from(document.querySelectorAll('[role="button"], button, a')).filter(visible)) {
@@ -81,7 +84,13 @@ export async function expectTidy(p: WatchedPage, shot: string, expected: { input
   await p.page.waitForTimeout(150);
   const report = await measure(p.page);
   await p.shot(`layout-${shot}`);
-  expect({ shot, sideways: report.sideways, outsideCard: report.outsideCard, outsideScreen: report.outsideScreen, unwrapped: report.unwrapped }).toEqual({
+  expect({
+    shot,
+    sideways: report.sideways,
+    outsideCard: report.outsideCard,
+    outsideScreen: report.outsideScreen,
+    unwrapped: report.unwrapped,
+  }).toEqual({
     shot,
     sideways: [],
     outsideCard: [],
@@ -100,7 +109,8 @@ function shiftedSideways(page: Page): Promise<string[]> {
     if (window.scrollX !== 0) shifted.push(`window scrolled ${window.scrollX} px sideways`);
     for (const el of Array.from(document.querySelectorAll('*'))) {
       // A long value scrolls inside its own input to show the caret; that is the input's text, not the screen.
-      if (el.scrollLeft > 0 && !el.closest('svg') && !el.matches('input, textarea')) shifted.push(`${el.getAttribute('data-testid') ?? el.tagName.toLowerCase()} scrolled ${el.scrollLeft} px sideways`);
+      if (el.scrollLeft > 0 && !el.closest('svg') && !el.matches('input, textarea'))
+        shifted.push(`${el.getAttribute('data-testid') ?? el.tagName.toLowerCase()} scrolled ${el.scrollLeft} px sideways`);
     }
     return shifted;
   });

@@ -22,7 +22,8 @@ const sizes = [
 
 async function ids() {
   const db = browser.server.ctx.db;
-  const byStatus = async (status: string) => (await db('revision').where({ status }).orderBy('id').first('id', 'dossier_id')) as { id: number; dossier_id: number };
+  const byStatus = async (status: string) =>
+    (await db('revision').where({ status }).orderBy('id').first('id', 'dossier_id')) as { id: number; dossier_id: number };
   return {
     draft: await byStatus('draft'),
     inReview: await byStatus('in_review'),
@@ -115,7 +116,10 @@ describe('layout of every screen', { timeout: WALK_MS }, () => {
         await expectTidy(p, `revision-${label}-design-${name}`, { inputs: label === 'draft' });
         for (const tab of ['evidence', 'changes', 'review'] as const) {
           await p.page.getByTestId(`revision-tabs-${tab}`).click();
-          await p.page.locator(tab === 'changes' ? '[data-testid="changes"], [data-testid="changes-none"]' : `[data-testid="${tab}-tab"]`).first().waitFor();
+          await p.page
+            .locator(tab === 'changes' ? '[data-testid="changes"], [data-testid="changes-none"]' : `[data-testid="${tab}-tab"]`)
+            .first()
+            .waitFor();
           await expectTidy(p, `revision-${label}-${tab}-${name}`);
         }
       }

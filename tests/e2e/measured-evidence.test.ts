@@ -46,7 +46,9 @@ describe('single-fault checks and referred captures in the browser', () => {
       await p.page.getByTestId('design-capacitors-capacitance').fill('470uf');
       await expect.poll(() => p.page.getByTestId('design-capacitors-capacitance-reading').textContent()).toBe('read as 470 µF');
       await p.page.getByTestId('design-capacitors-capacitance').fill('2,200u');
-      await expect.poll(() => p.page.getByTestId('design-capacitors-capacitance-error').textContent()).toBe('✕ 2,200u can be read two ways: write 2200u or 2.2u');
+      await expect
+        .poll(() => p.page.getByTestId('design-capacitors-capacitance-error').textContent())
+        .toBe('✕ 2,200u can be read two ways: write 2200u or 2.2u');
       await p.page.getByTestId('design-capacitors-capacitance').scrollIntoViewIfNeeded();
       await p.shot(`fault-quick-check-${name}-ambiguous`);
       await p.page.getByTestId('design-capacitors-capacitance').fill('3.3u');
@@ -73,7 +75,11 @@ describe('single-fault checks and referred captures in the browser', () => {
     // Arrange through the API: a dossier asking for the single fault, a design with two strings, revision 1 with a capture, submitted.
     const api = await browser.server.signIn('engineer');
     const products = (await api.get('/api/products')).body;
-    const dossier = (await api.post('/api/dossiers').send({ productId: products[0].id, title: 'Browser: referred capture', requirement: { ...demoRequirement, singleFault: true } })).body;
+    const dossier = (
+      await api
+        .post('/api/dossiers')
+        .send({ productId: products[0].id, title: 'Browser: referred capture', requirement: { ...demoRequirement, singleFault: true } })
+    ).body;
     const first = dossier.revisions[0].id as number;
     await saveDraft(api, first, { design: twoStrings });
     const a = await api.post(`/api/revisions/${first}/evidence`).field('kind', 'waveform').attach('file', capture(622, 0.66), 'bench-rev1.csv');
@@ -103,9 +109,13 @@ describe('single-fault checks and referred captures in the browser', () => {
         await uploadThroughPage(p.page, 'bench-500V.csv', capture(500, 0.79));
         const counted = p.page.locator('[data-testid$="-counted"]');
         await expect.poll(() => counted.count(), { timeout: 20_000 }).toBe(2);
-        const uploaded = (await api.get(`/api/revisions/${second}`)).body.evidence.find((e: { originalName: string }) => e.originalName === 'bench-500V.csv');
+        const uploaded = (await api.get(`/api/revisions/${second}`)).body.evidence.find(
+          (e: { originalName: string }) => e.originalName === 'bench-500V.csv',
+        );
         // RC decay law with the 10 MΩ probe taken out (C at its −5 % tolerance, 6.27 µF): τ_u = 1/(1/0.79 − 1/62.7) = 0.800 s; t = τ_u·ln(622/60) = 1.87 s.
-        expect(await p.page.getByTestId(`analysis-${uploaded.id}-counted`).textContent()).toMatch(/^Counts as 1\.87 s from the 622 V maximum bus \(referred from 500 V\)\.$/);
+        expect(await p.page.getByTestId(`analysis-${uploaded.id}-counted`).textContent()).toMatch(
+          /^Counts as 1\.87 s from the 622 V maximum bus \(referred from 500 V\)\.$/,
+        );
         expect(await p.page.getByTestId(`analysis-${uploaded.id}-probe`).textContent()).toMatch(/Instrument input 10 MΩ across the capacitor/);
         await p.page.getByTestId(`analysis-${uploaded.id}-counted`).scrollIntoViewIfNeeded();
         await p.shot('fault-evidence-phone-counted');
@@ -126,7 +136,9 @@ describe('single-fault checks and referred captures in the browser', () => {
       // Changes: the single-fault time moved with the resistors; each capture's checks sit under its file.
       await p.page.getByTestId('revision-tabs-changes').click();
       await p.page.getByTestId('changes').waitFor();
-      expect(await p.page.getByTestId('check-changes-design').getByTestId('check-change-single-fault-time').textContent()).toMatch(/Value changed.*Single fault: discharge time with one bleeder resistor open/);
+      expect(await p.page.getByTestId('check-changes-design').getByTestId('check-change-single-fault-time').textContent()).toMatch(
+        /Value changed.*Single fault: discharge time with one bleeder resistor open/,
+      );
       const group = p.page.getByTestId(`check-changes-file-${b.sha256.slice(0, 12)}`);
       expect(await group.textContent()).toMatch(/^From bench-500V\.csv/);
       expect(await group.getByTestId(`check-change-measured-discharge:${b.sha256.slice(0, 12)}`).textContent()).toMatch(/New check/);

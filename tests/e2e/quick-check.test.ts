@@ -107,7 +107,9 @@ describe('Quick check in the browser', () => {
     await p.page.getByTestId('requirement-preset-household-plug').click();
     expect(await p.page.getByTestId('requirement-safeVoltage').inputValue()).toBe('34 V');
     expect(await p.page.getByTestId('requirement-maxTime').inputValue()).toBe('1 s');
-    expect(await p.page.getByTestId('requirement-preset-note').textContent()).toContain('Typical value — verify against the current edition of the standard');
+    expect(await p.page.getByTestId('requirement-preset-note').textContent()).toContain(
+      'Typical value — verify against the current edition of the standard',
+    );
     await settledOnServer(p);
     expect(await verdictText(p)).toBe('✕ Fails: 1 of 3 checks');
     expect(await p.page.getByTestId('quick-check-strip').textContent()).toContain('Discharge time (bleeders)');
@@ -135,7 +137,9 @@ describe('Quick check in the browser', () => {
     await settledOnServer(p);
     expect(await verdictText(p)).toBe('✓ Meets every check (3 of 3)');
     const activeSeconds = (2 * 3.3e-6 * 1.05 * (357.8 - 34)) / 0.2 + 0.1;
-    expect(await p.page.getByTestId('results-check-discharge-time-value').textContent()).toContain(`${Number((activeSeconds * 1e3).toPrecision(3))} ms`);
+    expect(await p.page.getByTestId('results-check-discharge-time-value').textContent()).toContain(
+      `${Number((activeSeconds * 1e3).toPrecision(3))} ms`,
+    );
     expect(await p.page.getByTestId('results-check-passive-fallback-time-status').textContent()).toBe('● For information');
     await p.page.getByTestId('design-active-current').scrollIntoViewIfNeeded();
     await p.shot('quick-check-phone-active');

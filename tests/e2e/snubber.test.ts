@@ -22,7 +22,10 @@ function withoutDeliberate400(problems: readonly string[]): string[] {
     rest.splice(at, 1);
   };
   take((x) => /^HTTP 400: .*\/api\/calc\/snubber$/.test(x), 'the HTTP 400 of /api/calc/snubber');
-  take((x) => x === 'console: Failed to load resource: the server responded with a status of 400 (Bad Request)', 'the browser console line for that 400');
+  take(
+    (x) => x === 'console: Failed to load resource: the server responded with a status of 400 (Bad Request)',
+    'the browser console line for that 400',
+  );
   return rest;
 }
 

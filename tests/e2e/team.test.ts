@@ -59,7 +59,10 @@ describe('team administration in the browser', () => {
     const admin = await browser.page(PHONE);
     await admin.signIn('admin');
     const adminApi = await browser.server.signIn('admin');
-    for (const [email, name] of [['ines@fennel.test', 'Inês Moura'], ['tariq@fennel.test', 'Tariq Aziz']]) {
+    for (const [email, name] of [
+      ['ines@fennel.test', 'Inês Moura'],
+      ['tariq@fennel.test', 'Tariq Aziz'],
+    ]) {
       expect((await adminApi.post('/api/users').send({ email, name, role: 'engineer' })).status).toBe(201);
     }
     const firstMail = await browser.server.waitForMail((m) => m.to.includes('ines@fennel.test'));
@@ -71,7 +74,9 @@ describe('team administration in the browser', () => {
     await admin.page.getByTestId('confirm-resend-ines@fennel.test').waitFor();
     await admin.shot('team-resend-confirm-phone');
     await admin.page.getByTestId('confirm-resend-yes-ines@fennel.test').click();
-    await expect.poll(() => admin.page.getByTestId('invite-result-ines@fennel.test').textContent()).toMatch(/A new invitation went to ines@fennel.test/);
+    await expect
+      .poll(() => admin.page.getByTestId('invite-result-ines@fennel.test').textContent())
+      .toMatch(/A new invitation went to ines@fennel.test/);
     await admin.page.getByTestId('invite-result-ines@fennel.test').scrollIntoViewIfNeeded();
     await admin.shot('team-resent-phone');
     const secondMail = await browser.server.waitForMail((m) => m.to.includes('ines@fennel.test') && !m.text.includes(firstLink.split('token=')[1]));

@@ -34,7 +34,13 @@ describe('screens a certification engineer trusts', { timeout: 180_000 }, () => 
     const engineer = await browser.server.ctx.db('user').where({ email: 'engineer@fennel.test' }).first('id');
     const now = new Date().toISOString();
     await browser.server.ctx.db('product').insert(
-      Array.from({ length: 300 }, (_, i) => ({ name: `Bench unit ${String(i + 1).padStart(3, '0')}`, model_number: `BU-${1000 + i}`, description: '', created_by: engineer.id, created_at: now })),
+      Array.from({ length: 300 }, (_, i) => ({
+        name: `Bench unit ${String(i + 1).padStart(3, '0')}`,
+        model_number: `BU-${1000 + i}`,
+        description: '',
+        created_by: engineer.id,
+        created_at: now,
+      })),
     );
     const p = await browser.page(PHONE);
     await p.signIn('engineer');
@@ -96,13 +102,22 @@ describe('screens a certification engineer trusts', { timeout: 180_000 }, () => 
     await uploadCapture(p.page, 'bench-a.csv', 1.3);
     await uploadCapture(p.page, 'bench-b.csv', 1.2);
     // One analysis card per capture (its own notes carry testIDs that start the same way).
-    await expect.poll(() => p.page.locator('[data-testid^="analysis-"]').evaluateAll((els) => els.filter((e) => /^analysis-\d+$/.test(e.getAttribute('data-testid') ?? '')).length)).toBe(2);
+    await expect
+      .poll(() =>
+        p.page
+          .locator('[data-testid^="analysis-"]')
+          .evaluateAll((els) => els.filter((e) => /^analysis-\d+$/.test(e.getAttribute('data-testid') ?? '')).length),
+      )
+      .toBe(2);
 
     const legend = p.page.getByTestId('decay-chart').locator('[data-testid^="decay-chart-legend-measured-"] line');
     const colours = await legend.evaluateAll((lines) => lines.map((l) => l.getAttribute('stroke')));
     expect(colours).toHaveLength(2);
     expect(colours[0]).not.toBe(colours[1]);
-    const plotted = await p.page.getByTestId('decay-chart').locator('svg path[stroke-opacity]').evaluateAll((paths) => paths.map((x) => x.getAttribute('stroke')));
+    const plotted = await p.page
+      .getByTestId('decay-chart')
+      .locator('svg path[stroke-opacity]')
+      .evaluateAll((paths) => paths.map((x) => x.getAttribute('stroke')));
     expect(plotted).toEqual(colours);
     await p.page.getByTestId('evidence-overlay').scrollIntoViewIfNeeded();
     await p.shot('trust-two-captures-phone');
@@ -120,7 +135,9 @@ describe('screens a certification engineer trusts', { timeout: 180_000 }, () => 
 
     await p.page.getByTestId(`remove-evidence-${rows[0].id}`).click();
     await p.page.getByTestId('remove-evidence-dialog-confirm').click();
-    await expect.poll(() => text(p.page, 'evidence-removed')).toBe('✓ Removed “bench-a.csv” from revision 1; its results were recomputed without it.');
+    await expect
+      .poll(() => text(p.page, 'evidence-removed'))
+      .toBe('✓ Removed “bench-a.csv” from revision 1; its results were recomputed without it.');
     expect(await browser.server.ctx.db('evidence').where({ revision_id: first }).pluck('original_name')).toEqual(['bench-b.csv']);
     await p.page.getByTestId('evidence-removed').scrollIntoViewIfNeeded();
     await p.shot('trust-evidence-removed-phone');
@@ -203,7 +220,9 @@ describe('screens a certification engineer trusts', { timeout: 180_000 }, () => 
       await engineer.post(`/api/revisions/${second}/submit`).expect(200);
       await reviewer.post(`/api/revisions/${second}/decision`).send({ decision: 'return', comment: 'One more corner.' }).expect(200);
       const third = (await engineer.post(`/api/dossiers/${dossierId}/revisions`).send({}).expect(201)).body.id as number;
-      expect((await saveDraft(engineer, third, { design: { ...demoDesign, bleeder: { ...demoDesign.bleeder, resistance: 68_000 } } })).status).toBe(200);
+      expect((await saveDraft(engineer, third, { design: { ...demoDesign, bleeder: { ...demoDesign.bleeder, resistance: 68_000 } } })).status).toBe(
+        200,
+      );
 
       await p.page.goto(`${browser.server.url}/revisions/${third}?tab=changes`);
       await p.page.getByTestId('changes').waitFor();

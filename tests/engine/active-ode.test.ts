@@ -104,12 +104,7 @@ describe('odex ODE solver agrees with the engine on active discharge (relative 1
         });
         const c = s.capacitance * (1 + s.tolPlus);
         const engine = result.worstCase?.timeToSafe ?? NaN;
-        const ode = odeCrossing(
-          (t, v) => (t < s.delay ? 0 : -v / (s.resistance * c)),
-          s.voltage,
-          safeVoltage,
-          2 * engine + 1,
-        );
+        const ode = odeCrossing((t, v) => (t < s.delay ? 0 : -v / (s.resistance * c)), s.voltage, safeVoltage, 2 * engine + 1);
         expect(Math.abs(ode - engine) / engine).toBeLessThan(1e-6);
       }),
       { seed: 7_312, numRuns: 30 },

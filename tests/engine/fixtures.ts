@@ -12,7 +12,17 @@ export interface Simple {
 }
 
 export function requirement(overrides: Partial<Requirement> = {}): Requirement {
-  return { safeVoltage: 60, maxTime: 5, maxEnergy: null, maxCharge: null, fallbackMaxTime: null, singleFault: false, condition: '', reference: '', ...overrides };
+  return {
+    safeVoltage: 60,
+    maxTime: 5,
+    maxEnergy: null,
+    maxCharge: null,
+    fallbackMaxTime: null,
+    singleFault: false,
+    condition: '',
+    reference: '',
+    ...overrides,
+  };
 }
 
 /** One capacitor, one resistor, ideal parts, bus nominal = maximum. */
@@ -44,8 +54,7 @@ export function idealInput(s: Simple, overrides: Partial<Design> = {}) {
   };
 }
 
-export const logUniform = (lo: number, hi: number) =>
-  fc.double({ min: Math.log10(lo), max: Math.log10(hi), noNaN: true }).map((e) => 10 ** e);
+export const logUniform = (lo: number, hi: number) => fc.double({ min: Math.log10(lo), max: Math.log10(hi), noNaN: true }).map((e) => 10 ** e);
 
 /** Random discharge networks for property and simulator tests: counts, tolerances, TCR, drift, ambient, bus. */
 export const networkArb = (minBus: number) =>

@@ -48,21 +48,19 @@ describe('ngspice transient of spiceNetlist() agrees with the engine within 0.1 
 
 // With a charge or energy alternative the netlist measures the crossing of the earliest criterion's
 // voltage; ngspice's own reading of that `.meas` line must match the engine's time too.
-const withAlternatives = fc.sample(
-  fc.tuple(designArb, fc.double({ min: 0.05, max: 0.6, noNaN: true }), fc.boolean()),
-  { seed: 20_240_612, numRuns: 6 },
-);
+const withAlternatives = fc.sample(fc.tuple(designArb, fc.double({ min: 0.05, max: 0.6, noNaN: true }), fc.boolean()), {
+  seed: 20_240_612,
+  numRuns: 6,
+});
 
-describe('ngspice with charge and energy criteria, using the netlist\'s own .meas line', () => {
+describe("ngspice with charge and energy criteria, using the netlist's own .meas line", () => {
   it.each(withAlternatives.map((x, i) => [i + 1, x] as const))('design %i', async (_, [input, share, useCharge]) => {
     // A limit that is met somewhere between the start and the safe voltage.
     const { capacitance, tolerancePlus, parallel, series } = input.design.capacitors;
     const cMax = (capacitance * (1 + tolerancePlus) * parallel) / series;
     const vSafe = input.requirement.safeVoltage;
     const vAlt = vSafe + share * (input.design.bus.maxVoltage - vSafe);
-    const requirement = useCharge
-      ? { ...input.requirement, maxCharge: cMax * vAlt }
-      : { ...input.requirement, maxEnergy: 0.5 * cMax * vAlt * vAlt };
+    const requirement = useCharge ? { ...input.requirement, maxCharge: cMax * vAlt } : { ...input.requirement, maxEnergy: 0.5 * cMax * vAlt * vAlt };
     const result = computeDischarge({ requirement, design: input.design });
     const run = await simulate(spiceNetlist({ requirement, design: input.design }, 'worst'));
     const engine = result.worstCase?.timeToSafe ?? NaN;

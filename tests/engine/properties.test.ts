@@ -124,9 +124,7 @@ describe('discharge laws', () => {
       fc.property(inputArb(activeArb), (input) => {
         const result = computeDischarge(input);
         expect(result.worstCase?.timeToSafe ?? NaN).toBeGreaterThanOrEqual(result.nominal?.timeToSafe ?? NaN);
-        expect(result.worstCase?.passiveTimeToSafe ?? NaN).toBeGreaterThanOrEqual(
-          result.nominal?.passiveTimeToSafe ?? NaN,
-        );
+        expect(result.worstCase?.passiveTimeToSafe ?? NaN).toBeGreaterThanOrEqual(result.nominal?.passiveTimeToSafe ?? NaN);
       }),
       { seed: 105, numRuns: 200 },
     );

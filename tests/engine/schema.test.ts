@@ -1,13 +1,7 @@
 // The wire schema turns nonsense into field-level errors and lets real designs through.
 import { describe, expect, it } from 'vitest';
 import { computeDischarge } from '../../shared/engine';
-import {
-  designDraftSchema,
-  designSchema,
-  dischargeInputSchema,
-  dischargeResultSchema,
-  requirementSchema,
-} from '../../shared/schema/discharge';
+import { designDraftSchema, designSchema, dischargeInputSchema, dischargeResultSchema, requirementSchema } from '../../shared/schema/discharge';
 
 // DESIGN.md §4.4 example body, verbatim.
 const example = {
@@ -146,9 +140,7 @@ describe('designDraftSchema and the incomplete verdict', () => {
 describe('dischargeResultSchema', () => {
   it('describes what computeDischarge returns, complete or not', () => {
     expect(dischargeResultSchema.safeParse(computeDischarge(example)).success).toBe(true);
-    expect(dischargeResultSchema.safeParse(computeDischarge({ requirement: example.requirement, design: {} })).success).toBe(
-      true,
-    );
+    expect(dischargeResultSchema.safeParse(computeDischarge({ requirement: example.requirement, design: {} })).success).toBe(true);
     const active = computeDischarge({
       ...example,
       design: { ...example.design, active: { mode: 'switched-resistor', resistance: 1500, pulseEnergy: 100, delay: 0.1 } },

@@ -29,7 +29,14 @@ function corners(d: Design) {
 const num = (v: number) => Number(v.toPrecision(12)).toString();
 
 /** `count` strings of `series` equal parts from `bus` to ground; `skip` leaves element (1, 1) out or replaces it. */
-function strings(prefix: string, series: number, count: number, value: number, first?: (from: string, to: string) => string | null, ic?: number): string[] {
+function strings(
+  prefix: string,
+  series: number,
+  count: number,
+  value: number,
+  first?: (from: string, to: string) => string | null,
+  ic?: number,
+): string[] {
   const lines: string[] = [];
   for (let k = 1; k <= count; k += 1) {
     for (let j = 1; j <= series; j += 1) {
@@ -77,7 +84,9 @@ async function shortedResistorStress(d: Design): Promise<{ voltage: number; powe
 }
 
 const sampled = fc.sample(
-  fc.record({ net: networkArb(100), safeShare: fc.double({ min: 0.02, max: 0.5, noNaN: true }) }).filter(({ net }) => net.resParallel >= 2 && net.resSeries >= 2),
+  fc
+    .record({ net: networkArb(100), safeShare: fc.double({ min: 0.02, max: 0.5, noNaN: true }) })
+    .filter(({ net }) => net.resParallel >= 2 && net.resSeries >= 2),
   { seed: 20_250_310, numRuns: 10 },
 );
 
@@ -91,7 +100,8 @@ describe('single-fault checks against ngspice on the faulted network', () => {
 
     // Open: one string lost, R = R_max·n_s/(n_p − 1), C = C_max·n_p/n_s; t = R·C·ln(V0/V_safe) ([S2] RC law).
     const time = check(result, 'single-fault-time');
-    const hand = ((rMax * series) / (parallel - 1)) * ((cMax * design.capacitors.parallel) / design.capacitors.series) * Math.log(net.vMax / req.safeVoltage);
+    const hand =
+      ((rMax * series) / (parallel - 1)) * ((cMax * design.capacitors.parallel) / design.capacitors.series) * Math.log(net.vMax / req.safeVoltage);
     expect(Math.abs((time.value ?? NaN) - hand) / hand).toBeLessThan(1e-9);
     const spice = await openBleederCrossing(design, req.safeVoltage, hand);
     expect(Math.abs((time.value ?? NaN) - spice) / spice).toBeLessThan(1e-3);
@@ -127,14 +137,19 @@ describe('single-fault checks by hand from published examples', () => {
     const design = idealDesign({ ...s2, resistance: 440e3 }, {});
     design.bleeder = { ...design.bleeder, parallel: 2 };
     const result = computeDischarge({ requirement: requirement({ safeVoltage: 60, maxTime: 0.75, singleFault: true }), design });
-    expect(check(result, 'discharge-time').value).toBeCloseTo(0.520, 3);
+    expect(check(result, 'discharge-time').value).toBeCloseTo(0.52, 3);
     // 440 kΩ × 1.32 µF × ln(360/60) = 0.5808 s × 1.7918 = 1.0407 s.
     const time = check(result, 'single-fault-time');
     expect(time.value).toBeCloseTo(1.0407, 3);
     expect(time.pass).toBe(false);
-    expect(time.detail).toMatch(/^One of 2 strings lost: 1 string of 1 × 440 kΩ = 440 kΩ, worst case: R nominal, C nominal, V0 360 V; reaches the 60 V safe voltage; against the 750 ms time limit$/);
+    expect(time.detail).toMatch(
+      /^One of 2 strings lost: 1 string of 1 × 440 kΩ = 440 kΩ, worst case: R nominal, C nominal, V0 360 V; reaches the 60 V safe voltage; against the 750 ms time limit$/,
+    );
     // Where the user's standard allows longer under a fault, that limit applies.
-    const longer = computeDischarge({ requirement: requirement({ safeVoltage: 60, maxTime: 0.75, singleFault: true, singleFaultMaxTime: 2 }), design });
+    const longer = computeDischarge({
+      requirement: requirement({ safeVoltage: 60, maxTime: 0.75, singleFault: true, singleFaultMaxTime: 2 }),
+      design,
+    });
     expect(check(longer, 'single-fault-time')).toMatchObject({ limit: 2, pass: true });
     expect(check(longer, 'single-fault-time').detail).toMatch(/against the 2 s single-fault limit$/);
     expect(longer.verdict).toBe('meets');
@@ -153,7 +168,9 @@ describe('single-fault checks by hand from published examples', () => {
     const voltage = check(result, 'single-fault-voltage');
     expect(voltage).toMatchObject({ limit: 1000, pass: true });
     expect(voltage.value).toBeCloseTo(800, 9);
-    expect(voltage.detail).toMatch(/^One of 2 resistors in series shorted: the other carries the whole 800 V maximum bus; limit: the limiting element voltage 1 kV$/);
+    expect(voltage.detail).toMatch(
+      /^One of 2 resistors in series shorted: the other carries the whole 800 V maximum bus; limit: the limiting element voltage 1 kV$/,
+    );
     expect(result.verdict).toBe('fails');
   });
 
@@ -165,7 +182,10 @@ describe('single-fault checks by hand from published examples', () => {
 
   it('with active discharge the fault is the active circuit failing: the fallback check judges it, the open bleeder is not counted twice', () => {
     // [S10] scenario (REFERENCE E4): 600 µF, 450 V → 60 V, 0.2 A constant current → 1.17 s; bleeders as fallback.
-    const design = idealDesign({ capacitance: 600e-6, voltage: 450, resistance: 100e3 }, { active: { mode: 'constant-current', current: 0.2, delay: 0 } });
+    const design = idealDesign(
+      { capacitance: 600e-6, voltage: 450, resistance: 100e3 },
+      { active: { mode: 'constant-current', current: 0.2, delay: 0 } },
+    );
     const result = computeDischarge({ requirement: requirement({ safeVoltage: 60, maxTime: 2, singleFault: true }), design });
     const open = check(result, 'single-fault-time');
     expect(open).toMatchObject({ value: null, limit: null, pass: true, informational: true });
@@ -176,7 +196,9 @@ describe('single-fault checks by hand from published examples', () => {
     expect(fallback).toMatchObject({ limit: 2, pass: false });
     expect(fallback.value).toBeCloseTo(120.9, 1);
     expect(fallback.informational).toBeUndefined();
-    expect(fallback.detail).toMatch(/the active circuit failing is the single fault, so with no fallback limit set the bleeders alone are held to the 2 s time limit/);
+    expect(fallback.detail).toMatch(
+      /the active circuit failing is the single fault, so with no fallback limit set the bleeders alone are held to the 2 s time limit/,
+    );
     expect(result.verdict).toBe('fails');
   });
 

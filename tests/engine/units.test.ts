@@ -1,15 +1,7 @@
 // Engineers' notation: SI prefixes (SI Brochure), resistor RKM codes (IEC 60062), SPICE "meg".
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import {
-  formatPercent,
-  formatQuantity,
-  parseCelsius,
-  parsePercent,
-  parsePpmPerK,
-  parseQuantity,
-  type QuantityUnit,
-} from '../../shared/units';
+import { formatPercent, formatQuantity, parseCelsius, parsePercent, parsePpmPerK, parseQuantity, type QuantityUnit } from '../../shared/units';
 
 const accepted: [string, QuantityUnit, number][] = [
   ['470u', 'F', 470e-6],
@@ -109,7 +101,10 @@ describe('parseQuantity', () => {
     expect(parseQuantity('230 V rms', 'V', { supply: 'ac' })).toEqual({ ok: true, value: 230 });
     expect(parseQuantity('400 V', 'V', { supply: 'ac' })).toEqual({ ok: true, value: 400 });
     expect(parseQuantity('230 VAC', 'V')).toEqual({ ok: false, error: expect.stringMatching(/is an AC voltage; this field takes a DC voltage/) });
-    expect(parseQuantity('800 VDC', 'V', { supply: 'ac' })).toEqual({ ok: false, error: expect.stringMatching(/is a DC voltage; this field takes an AC \(RMS\) voltage/) });
+    expect(parseQuantity('800 VDC', 'V', { supply: 'ac' })).toEqual({
+      ok: false,
+      error: expect.stringMatching(/is a DC voltage; this field takes an AC \(RMS\) voltage/),
+    });
   });
 
   it('refuses several decimal points, and separators in percentages and temperatures too', () => {
@@ -172,11 +167,14 @@ function plausibleReadings(number: string): Set<number> {
 }
 
 describe('no accepted text has two plausible readings (property)', () => {
-  const numberText = fc
-    .array(fc.constantFrom('0', '1', '2', '4', '7', '9', ',', '.'), { minLength: 1, maxLength: 9 })
-    .map((chars) => chars.join(''));
+  const numberText = fc.array(fc.constantFrom('0', '1', '2', '4', '7', '9', ',', '.'), { minLength: 1, maxLength: 9 }).map((chars) => chars.join(''));
   const grouped = fc
-    .tuple(fc.integer({ min: 1, max: 999 }), fc.array(fc.integer({ min: 0, max: 999 }), { minLength: 1, maxLength: 3 }), fc.constantFrom(',', '.'), fc.option(fc.tuple(fc.constantFrom(',', '.'), fc.integer({ min: 0, max: 9999 }))))
+    .tuple(
+      fc.integer({ min: 1, max: 999 }),
+      fc.array(fc.integer({ min: 0, max: 999 }), { minLength: 1, maxLength: 3 }),
+      fc.constantFrom(',', '.'),
+      fc.option(fc.tuple(fc.constantFrom(',', '.'), fc.integer({ min: 0, max: 9999 }))),
+    )
     .map(([head, groups, sep, tail]) => `${head}${groups.map((g) => sep + String(g).padStart(3, '0')).join('')}${tail ? tail[0] + tail[1] : ''}`);
   const suffixes: [string, QuantityUnit, number][] = [
     ['u', 'F', 1e-6],

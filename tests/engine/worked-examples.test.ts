@@ -33,9 +33,7 @@ describe('E1 — [S2] "Protection against residual voltage" (IEC 60204-1 summary
   });
 
   it('with the chosen 220 kΩ: τ = 0.290 s and t = 0.520 s', () => {
-    const result = computeDischarge(
-      idealInput({ capacitance: 1.32e-6, voltage: 360, safeVoltage: 60, maxTime: 0.75, resistance: 220e3 }),
-    );
+    const result = computeDischarge(idealInput({ capacitance: 1.32e-6, voltage: 360, safeVoltage: 60, maxTime: 0.75, resistance: 220e3 }));
     // [S2] (t with 220 kΩ recomputed in REFERENCE.md): τ = 0.290 s, t = 0.520 s.
     expect(result.worstCase?.tau).toBeCloseTo(0.29, 3);
     expect(check(result, 'discharge-time').value).toBeCloseTo(0.52, 3);
@@ -49,9 +47,7 @@ describe('E1 — [S2] "Protection against residual voltage" (IEC 60204-1 summary
       [230, 0.24],
       [253, 0.29],
     ] as const) {
-      const result = computeDischarge(
-        idealInput({ capacitance: 1.32e-6, voltage, safeVoltage: 60, maxTime: 0.75, resistance: 220e3 }),
-      );
+      const result = computeDischarge(idealInput({ capacitance: 1.32e-6, voltage, safeVoltage: 60, maxTime: 0.75, resistance: 220e3 }));
       expect(check(result, 'resistor-power').value).toBeCloseTo(watts, 2);
     }
   });
@@ -113,9 +109,7 @@ describe('E4 — [S10] active-discharge reference design scenario: 600 µF, 450 
 
   it('constant current: I ≥ 0.117 A; 0.2 A reaches 60 V in 1.17 s', () => {
     expect(minDischargeCurrent(2, 600e-6, 450, 60)).toBeCloseTo(0.117, 3);
-    const result = computeDischarge(
-      idealInput(base, { active: { mode: 'constant-current', current: 0.2, delay: 0 } }),
-    );
+    const result = computeDischarge(idealInput(base, { active: { mode: 'constant-current', current: 0.2, delay: 0 } }));
     expect(check(result, 'discharge-time').value).toBeCloseTo(1.17, 2);
     expect(check(result, 'discharge-time').pass).toBe(true);
     // The 1 MΩ bleeder alone is far too slow: the fallback check reports it, with no limit set.

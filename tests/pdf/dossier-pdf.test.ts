@@ -55,7 +55,12 @@ afterAll(async () => {
 });
 
 function approvedFixture(s: SigningSetup): Fixture {
-  const fixture = servoDriveDossier({ status: 'approved', signerKind: s.identity.kind, signerSubject: s.identity.subject, timestampAuthority: s.tsaUrl });
+  const fixture = servoDriveDossier({
+    status: 'approved',
+    signerKind: s.identity.kind,
+    signerSubject: s.identity.subject,
+    timestampAuthority: s.tsaUrl,
+  });
   fixture.model.signer.fingerprintSha256 = s.identity.fingerprintSha256;
   return fixture;
 }
@@ -118,7 +123,23 @@ describe('an approved revision', () => {
     expect(printed).toContain('unsignedAttrs:');
     expect(printed).toContain('id-smime-aa-timeStampToken (1.2.840.113549.1.9.16.2.14)');
 
-    const verify = await run('openssl', ['cms', '-verify', '-inform', 'DER', '-in', cmsFile, '-binary', '-content', signedFile, '-CAfile', rootPem, '-purpose', 'any', '-out', '/dev/null']);
+    const verify = await run('openssl', [
+      'cms',
+      '-verify',
+      '-inform',
+      'DER',
+      '-in',
+      cmsFile,
+      '-binary',
+      '-content',
+      signedFile,
+      '-CAfile',
+      rootPem,
+      '-purpose',
+      'any',
+      '-out',
+      '/dev/null',
+    ]);
     expect(verify.stderr).toContain('Verification successful');
   });
 
@@ -130,12 +151,16 @@ describe('an approved revision', () => {
     expect(stdout).toContain('Verification: OK');
     // The same token does not verify for other data: the imprint is bound to this signature.
     const other = createHash('sha256').update('another signature').digest('hex');
-    await expect(run('openssl', ['ts', '-verify', '-token_in', '-in', tokenFile, '-digest', other, '-CAfile', rootPem])).rejects.toThrow(/Verification: FAILED|message imprint mismatch/);
+    await expect(run('openssl', ['ts', '-verify', '-token_in', '-in', tokenFile, '-digest', other, '-CAfile', rootPem])).rejects.toThrow(
+      /Verification: FAILED|message imprint mismatch/,
+    );
   });
 
   it('holds the signer’s and the TSA’s chains and the root’s CRL in the document security store (B-LT)', async () => {
     const store = await securityStore(file, work);
-    const subjects = await Promise.all(store.certs.map(async (f) => (await run('openssl', ['x509', '-inform', 'DER', '-in', f, '-noout', '-subject'])).stdout));
+    const subjects = await Promise.all(
+      store.certs.map(async (f) => (await run('openssl', ['x509', '-inform', 'DER', '-in', f, '-noout', '-subject'])).stdout),
+    );
     for (const name of Object.values(DEV_NAMES)) expect(subjects.join('')).toContain(name);
     expect(store.crls).toHaveLength(1);
     const crl = await run('openssl', ['crl', '-inform', 'DER', '-in', store.crls[0], '-CAfile', rootPem, '-noout']);
@@ -272,9 +297,13 @@ describe('an approved revision', () => {
     expect(chartText).toContain('Time after disconnection (s)');
     expect(chartText).toContain('Voltage (V)');
     expect(chartText).toContain('Worst case (calculated)');
-    for (const name of ['pilot-unit-01-discharge.csv', 'pilot-unit-02-discharge.csv', 'pilot-unit-03-discharge.csv']) expect(chartText).toContain(`Measured: ${name}`);
+    for (const name of ['pilot-unit-01-discharge.csv', 'pilot-unit-02-discharge.csv', 'pilot-unit-03-discharge.csv'])
+      expect(chartText).toContain(`Measured: ${name}`);
 
-    for (const [page, name] of [[1, 'approved-page-1'], [chartPage, 'approved-chart']] as const) {
+    for (const [page, name] of [
+      [1, 'approved-page-1'],
+      [chartPage, 'approved-chart'],
+    ] as const) {
       const prefix = join(ARTEFACTS, name);
       const out = await renderPage(file, page, prefix);
       expect(out.code, out.stderr).toBe(0);
@@ -294,7 +323,16 @@ describe('evidence checks named per capture (ids "measured-discharge:<12 hex>")'
       const own = model.revision.results.checks.filter((c) => c.evidenceSha256 === capture.sha256);
       expect(own.map((c) => c.id)).toContain(`measured-discharge:${capture.sha256.slice(0, 12)}`);
     }
-    model.revision.results.checks.push({ id: 'single-fault-time', label: 'Worst single fault: one bleeder string open', value: 7.1, limit: null, unit: 's', pass: true, margin: null, detail: 'shown for information in this test' });
+    model.revision.results.checks.push({
+      id: 'single-fault-time',
+      label: 'Worst single fault: one bleeder string open',
+      value: 7.1,
+      limit: null,
+      unit: 's',
+      pass: true,
+      margin: null,
+      detail: 'shown for information in this test',
+    });
     const file = join(work, 'per-capture.pdf');
     writeFileSync(file, await renderDossierPdf(model));
     const text = flat(await pdftext(file));
@@ -452,7 +490,12 @@ describe('a first draft with missing inputs, no evidence and a broken audit chai
     const text = flat(await pdftext(file));
     expect(model.revision.results.verdict).toBe('incomplete');
     expect(text).toContain('Incomplete');
-    expect(model.revision.results.missing).toEqual(['design.capacitors.toleranceMinus', 'design.capacitors.tolerancePlus', 'design.bleeder', 'design.ambient']);
+    expect(model.revision.results.missing).toEqual([
+      'design.capacitors.toleranceMinus',
+      'design.capacitors.tolerancePlus',
+      'design.bleeder',
+      'design.ambient',
+    ]);
     expect(text).toContain('Capacitor bank: Tolerance −');
     expect(text).toContain('Bleeder network (every field)');
     expect(text).toContain('No evidence is attached to this revision.');

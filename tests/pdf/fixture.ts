@@ -147,7 +147,17 @@ function checkChanges(before: DischargeResult, after: DischargeResult): ChangedC
     const a = before.checks.find((c) => c.id === id) ?? null;
     const b = after.checks.find((c) => c.id === id) ?? null;
     if (a && b && a.pass === b.pass && a.value === b.value) return [];
-    return [{ id, label: (b ?? a)!.label, fromPass: a?.pass ?? null, toPass: b?.pass ?? null, from: a?.value ?? null, to: b?.value ?? null, unit: (b ?? a)!.unit }];
+    return [
+      {
+        id,
+        label: (b ?? a)!.label,
+        fromPass: a?.pass ?? null,
+        toPass: b?.pass ?? null,
+        from: a?.value ?? null,
+        to: b?.value ?? null,
+        unit: (b ?? a)!.unit,
+      },
+    ];
   });
 }
 
@@ -245,7 +255,14 @@ export function servoDriveDossier(options: FixtureOptions): Fixture {
     capture({ name: 'pilot-unit-01-discharge.csv', v0: 619.4, tau: 1.712, seed: 11, t0Source: 'marker' }, points, '2025-03-11T09:14:05Z', 31),
     capture({ name: 'pilot-unit-02-discharge.csv', v0: 612.8, tau: 1.684, seed: 22, t0Source: 'marker' }, points, '2025-03-11T09:41:37Z', 32),
     capture({ name: 'pilot-unit-03-discharge.csv', v0: 620.9, tau: 1.746, seed: 33, t0Source: 'detected' }, points, '2025-03-11T10:02:50Z', 33),
-    document('bleeder-resistor-datasheet.pdf', 'datasheet', 'application/pdf', '%PDF-1.4\n% demo datasheet: 7.5 kΩ 10 W wirewound\n', '2025-03-10T15:20:00Z', 34),
+    document(
+      'bleeder-resistor-datasheet.pdf',
+      'datasheet',
+      'application/pdf',
+      '%PDF-1.4\n% demo datasheet: 7.5 kΩ 10 W wirewound\n',
+      '2025-03-10T15:20:00Z',
+      34,
+    ),
     document('test-setup-photo.jpg', 'image', 'image/jpeg', 'demo image bytes: bench set-up with differential probe', '2025-03-11T08:55:12Z', 35),
   ];
   if (options.full) {
@@ -278,15 +295,21 @@ export function servoDriveDossier(options: FixtureOptions): Fixture {
       ['pilot-lot-serial-numbers.csv', 'other', 'text/csv'],
     ];
     extras.forEach(([name, kind, mediaType], i) => {
-      files.push(document(name, kind, mediaType, `demo content of ${name}\n`.repeat(40 + i * 17), `2025-03-1${i % 2}T1${i % 10}:0${i % 6}:00Z`, 40 + i));
+      files.push(
+        document(name, kind, mediaType, `demo content of ${name}\n`.repeat(40 + i * 17), `2025-03-1${i % 2}T1${i % 10}:0${i % 6}:00Z`, 40 + i),
+      );
     });
   }
   const r2 = computeRevisionResults(
     REQUIREMENT,
     design,
-    files.filter((f) => f.entry.analysis).map((f) => ({ evidenceId: Number(f.entry.id), sha256: f.entry.sha256, name: f.entry.originalName, analysis: f.entry.analysis! })),
+    files
+      .filter((f) => f.entry.analysis)
+      .map((f) => ({ evidenceId: Number(f.entry.id), sha256: f.entry.sha256, name: f.entry.originalName, analysis: f.entry.analysis! })),
   );
-  const contentHash = createHash('sha256').update(JSON.stringify({ design, notes, evidence: files.map((f) => f.entry.sha256) })).digest('hex');
+  const contentHash = createHash('sha256')
+    .update(JSON.stringify({ design, notes, evidence: files.map((f) => f.entry.sha256) }))
+    .digest('hex');
   const submitted = options.status !== 'draft';
   const decided = options.status === 'approved' || options.status === 'returned';
   const returnedR1 = {
@@ -336,16 +359,32 @@ export function servoDriveDossier(options: FixtureOptions): Fixture {
         { path: 'design.bleeder.series', label: 'Resistors in series per string', from: 4, to: 3, unit: '', changePct: -25 },
         { path: 'design.bleeder.parallel', label: 'Strings in parallel', from: 2, to: 3, unit: '', changePct: 50 },
         ...(options.full
-          ? SNUBBERS.map((sn, i) => ({ path: `design.snubbers.${i}`, label: `Snubber “${sn.name}”`, from: null, to: 'added', unit: '', changePct: null }))
+          ? SNUBBERS.map((sn, i) => ({
+              path: `design.snubbers.${i}`,
+              label: `Snubber “${sn.name}”`,
+              from: null,
+              to: 'added',
+              unit: '',
+              changePct: null,
+            }))
           : []),
       ],
       checks: checkChanges(r1, r2),
-      notesDiff: options.full ? `${NOTES_DIFF}\n+\n${PROCEDURE.split('\n').map((line) => `+${line}`).join('\n')}` : NOTES_DIFF,
+      notesDiff: options.full
+        ? `${NOTES_DIFF}\n+\n${PROCEDURE.split('\n')
+            .map((line) => `+${line}`)
+            .join('\n')}`
+        : NOTES_DIFF,
       evidenceAdded: files.slice(0, 3).map((f) => ({ originalName: f.entry.originalName, sha256: f.entry.sha256 })),
       evidenceRemoved: [],
     },
     reviews: [returnedR1, ...reviews],
-    audit: { verified: true, events: auditTrail(options.status, files), headHash: createHash('sha256').update('head').digest('hex'), firstBroken: null },
+    audit: {
+      verified: true,
+      events: auditTrail(options.status, files),
+      headHash: createHash('sha256').update('head').digest('hex'),
+      firstBroken: null,
+    },
     signer: {
       kind: options.signerKind ?? 'development',
       subject: options.signerSubject ?? 'CN=Voltfall development signing (not for certification), O=Voltfall development',
@@ -366,11 +405,18 @@ function auditTrail(status: RevisionStatus, files: readonly FixtureFile[]): Audi
     { at: '2025-03-07T16:02:00Z', actor: REVIEWER.name, action: 'revision.returned', revisionNumber: 1, payload: {} },
     { at: '2025-03-10T08:00:00Z', actor: AUTHOR.name, action: 'revision.create', revisionNumber: 2, payload: { number: 2, createdFrom: 17 } },
     { at: '2025-03-10T08:20:00Z', actor: AUTHOR.name, action: 'revision.update', revisionNumber: 2, payload: { fields: ['design'] } },
-    ...files.map((f) => ({ at: String(f.entry.uploadedAt), actor: AUTHOR.name, action: 'evidence.add', revisionNumber: 2, payload: { name: f.entry.originalName } })),
+    ...files.map((f) => ({
+      at: String(f.entry.uploadedAt),
+      actor: AUTHOR.name,
+      action: 'evidence.add',
+      revisionNumber: 2,
+      payload: { name: f.entry.originalName },
+    })),
     { at: '2025-03-11T11:50:00Z', actor: AUTHOR.name, action: 'revision.update', revisionNumber: 2, payload: { fields: ['notes'] } },
   ];
   if (status !== 'draft') events.push({ at: '2025-03-11T12:00:00Z', actor: AUTHOR.name, action: 'revision.submit', revisionNumber: 2, payload: {} });
-  if (status === 'returned') events.push({ at: '2025-03-12T11:30:00Z', actor: REVIEWER.name, action: 'revision.returned', revisionNumber: 2, payload: {} });
+  if (status === 'returned')
+    events.push({ at: '2025-03-12T11:30:00Z', actor: REVIEWER.name, action: 'revision.returned', revisionNumber: 2, payload: {} });
   return events
     .sort((a, b) => String(a.at).localeCompare(String(b.at)))
     .map((e, i) => ({ ...e, id: i + 1, hash: createHash('sha256').update(`event ${i}`).digest('hex') }));

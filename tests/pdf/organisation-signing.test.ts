@@ -28,7 +28,14 @@ const files = { caKey: '', ca: '', signerKey: '', signer: '', p12: '', crl: '' }
 beforeAll(async () => {
   dir = mkdtempSync(join(ARTEFACTS, 'org-'));
   const path = (name: string) => join(dir, name);
-  Object.assign(files, { caKey: path('ca.key'), ca: path('ca.pem'), signerKey: path('signer.key'), signer: path('signer.pem'), p12: path('org.p12'), crl: path('root.crl') });
+  Object.assign(files, {
+    caKey: path('ca.key'),
+    ca: path('ca.pem'),
+    signerKey: path('signer.key'),
+    signer: path('signer.pem'),
+    p12: path('org.p12'),
+    crl: path('root.crl'),
+  });
   crlServer = createServer((_req, res) => {
     crlRequests += 1;
     res.writeHead(200, { 'Content-Type': 'application/pkix-crl' }).end(readFileSync(files.crl));
@@ -36,13 +43,66 @@ beforeAll(async () => {
   await new Promise<void>((resolve) => crlServer.listen(0, '127.0.0.1', resolve));
   const crlUrl = `http://127.0.0.1:${(crlServer.address() as AddressInfo).port}/root.crl`;
 
-  await run('openssl', ['req', '-x509', '-newkey', 'rsa:2048', '-nodes', '-keyout', files.caKey, '-out', files.ca, '-days', '30', '-subj', '/O=Fennel Grid Labs/CN=Fennel Grid Labs test root', '-addext', 'basicConstraints=critical,CA:TRUE', '-addext', 'keyUsage=critical,keyCertSign,cRLSign']);
-  await run('openssl', ['req', '-newkey', 'rsa:2048', '-nodes', '-keyout', files.signerKey, '-out', path('signer.csr'), '-subj', '/O=Fennel Grid Labs/CN=Fennel Grid Labs dossier signing']);
-  writeFileSync(path('ext.cnf'), `[v3]\nbasicConstraints=critical,CA:FALSE\nkeyUsage=critical,digitalSignature,nonRepudiation\ncrlDistributionPoints=URI:${crlUrl}\nsubjectKeyIdentifier=hash\nauthorityKeyIdentifier=keyid\n`);
-  await run('openssl', ['x509', '-req', '-in', path('signer.csr'), '-CA', files.ca, '-CAkey', files.caKey, '-CAcreateserial', '-out', files.signer, '-days', '30', '-extfile', path('ext.cnf'), '-extensions', 'v3']);
+  await run('openssl', [
+    'req',
+    '-x509',
+    '-newkey',
+    'rsa:2048',
+    '-nodes',
+    '-keyout',
+    files.caKey,
+    '-out',
+    files.ca,
+    '-days',
+    '30',
+    '-subj',
+    '/O=Fennel Grid Labs/CN=Fennel Grid Labs test root',
+    '-addext',
+    'basicConstraints=critical,CA:TRUE',
+    '-addext',
+    'keyUsage=critical,keyCertSign,cRLSign',
+  ]);
+  await run('openssl', [
+    'req',
+    '-newkey',
+    'rsa:2048',
+    '-nodes',
+    '-keyout',
+    files.signerKey,
+    '-out',
+    path('signer.csr'),
+    '-subj',
+    '/O=Fennel Grid Labs/CN=Fennel Grid Labs dossier signing',
+  ]);
+  writeFileSync(
+    path('ext.cnf'),
+    `[v3]\nbasicConstraints=critical,CA:FALSE\nkeyUsage=critical,digitalSignature,nonRepudiation\ncrlDistributionPoints=URI:${crlUrl}\nsubjectKeyIdentifier=hash\nauthorityKeyIdentifier=keyid\n`,
+  );
+  await run('openssl', [
+    'x509',
+    '-req',
+    '-in',
+    path('signer.csr'),
+    '-CA',
+    files.ca,
+    '-CAkey',
+    files.caKey,
+    '-CAcreateserial',
+    '-out',
+    files.signer,
+    '-days',
+    '30',
+    '-extfile',
+    path('ext.cnf'),
+    '-extensions',
+    'v3',
+  ]);
   writeFileSync(path('index.txt'), '');
   writeFileSync(path('crlnumber'), '01\n');
-  writeFileSync(path('ca.cnf'), `[ca]\ndefault_ca=own\n[own]\ndatabase=${path('index.txt')}\ncrlnumber=${path('crlnumber')}\ndefault_md=sha256\ndefault_crl_days=30\n`);
+  writeFileSync(
+    path('ca.cnf'),
+    `[ca]\ndefault_ca=own\n[own]\ndatabase=${path('index.txt')}\ncrlnumber=${path('crlnumber')}\ndefault_md=sha256\ndefault_crl_days=30\n`,
+  );
   await run('openssl', ['ca', '-config', path('ca.cnf'), '-gencrl', '-keyfile', files.caKey, '-cert', files.ca, '-out', path('root.crl.pem')]);
   await run('openssl', ['crl', '-in', path('root.crl.pem'), '-outform', 'DER', '-out', files.crl]);
   // The PKCS#12 holds the key and its certificate only; the CA comes in the chain file.
@@ -58,7 +118,12 @@ describe('an organisation identity from a PKCS#12 file and its chain', () => {
   it('signs a dossier that pdfsig trusts through the organisation root, with the CRL fetched from the distribution point in its security store', async () => {
     const setup = await organisationSetup({ p12Path: files.p12, p12Password: 'org-secret', chainPath: files.ca, tsaUrl: null });
     expect(setup.identity.kind).toBe('organisation');
-    const { model } = servoDriveDossier({ status: 'approved', signerKind: 'organisation', signerSubject: setup.identity.subject, timestampAuthority: null });
+    const { model } = servoDriveDossier({
+      status: 'approved',
+      signerKind: 'organisation',
+      signerSubject: setup.identity.subject,
+      timestampAuthority: null,
+    });
     const file = join(dir, 'approved-org.pdf');
     const before = crlRequests;
     const pdf = await renderDossierPdf(model, { sign: { setup } });
@@ -88,16 +153,27 @@ describe('an organisation identity from a PKCS#12 file and its chain', () => {
   });
 
   it('refuses a wrong password, and a chain that does not reach a root, at start-up', async () => {
-    await expect(organisationSetup({ p12Path: files.p12, p12Password: 'wrong', chainPath: files.ca, tsaUrl: null })).rejects.toThrow(/wrong password/);
-    await expect(organisationSetup({ p12Path: files.p12, p12Password: 'org-secret', chainPath: null, tsaUrl: null })).rejects.toThrow(/not a root: add the issuing CAs and the root to SIGNING_CHAIN_PATH/);
+    await expect(organisationSetup({ p12Path: files.p12, p12Password: 'wrong', chainPath: files.ca, tsaUrl: null })).rejects.toThrow(
+      /wrong password/,
+    );
+    await expect(organisationSetup({ p12Path: files.p12, p12Password: 'org-secret', chainPath: null, tsaUrl: null })).rejects.toThrow(
+      /not a root: add the issuing CAs and the root to SIGNING_CHAIN_PATH/,
+    );
   });
 
   it('in production, refuses to start without the PKCS#12 file, and publishes the organisation root as the trust anchor', async () => {
-    const production = { NODE_ENV: 'production', SMTP_URL: 'smtp://relay.example.test:25', VOLTFALL_PUBLIC_URL: 'https://voltfall.example.test', TSA_URL: 'none' };
+    const production = {
+      NODE_ENV: 'production',
+      SMTP_URL: 'smtp://relay.example.test:25',
+      VOLTFALL_PUBLIC_URL: 'https://voltfall.example.test',
+      TSA_URL: 'none',
+    };
     const withoutFile = loadConfig({ ...production, SIGNING_P12_PATH: '/nonexistent/org.p12', SIGNING_P12_PASSWORD: 'org-secret' });
     await expect(startSigning(withoutFile)).rejects.toThrow(/Cannot read the signing PKCS#12 file/);
 
-    const signing = await startSigning(loadConfig({ ...production, SIGNING_P12_PATH: files.p12, SIGNING_P12_PASSWORD: 'org-secret', SIGNING_CHAIN_PATH: files.ca }));
+    const signing = await startSigning(
+      loadConfig({ ...production, SIGNING_P12_PATH: files.p12, SIGNING_P12_PASSWORD: 'org-secret', SIGNING_CHAIN_PATH: files.ca }),
+    );
     try {
       expect(signing.localTsaUrl).toBeNull();
       const bundle = join(dir, 'anchors.pem');

@@ -15,7 +15,8 @@ async function ok(command: string, args: string[]): Promise<ToolOutput> {
 export async function nssDatabase(dir: string, roots: Record<string, string>): Promise<string> {
   mkdirSync(dir, { recursive: true });
   await ok('certutil', ['-N', '-d', `sql:${dir}`, '--empty-password']);
-  for (const [nickname, pemFile] of Object.entries(roots)) await ok('certutil', ['-A', '-d', `sql:${dir}`, '-n', nickname, '-t', 'C,C,C', '-i', pemFile]);
+  for (const [nickname, pemFile] of Object.entries(roots))
+    await ok('certutil', ['-A', '-d', `sql:${dir}`, '-n', nickname, '-t', 'C,C,C', '-i', pemFile]);
   return dir;
 }
 

@@ -2,11 +2,7 @@
 // sizing (RCD turn-off), and the stored energy of accessible snubber capacitors. Expected values are
 // worked by hand in the comments from the formula named beside each check.
 import { describe, expect, it } from 'vitest';
-import {
-  snubberChecks,
-  snubberMissingInputs,
-  snubberStoredEnergy,
-} from '../../shared/engine/snubber';
+import { snubberChecks, snubberMissingInputs, snubberStoredEnergy } from '../../shared/engine/snubber';
 import type { RcdClampSnubber, RcdTurnoffSnubber, RcSnubber } from '../../shared/schema/snubber';
 
 const byId = (checks: ReturnType<typeof snubberChecks>, id: string) => {

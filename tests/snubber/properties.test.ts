@@ -1,22 +1,14 @@
 // Laws the snubber engine must obey for any input, checked with fast-check (seeded, so a failure replays).
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import {
-  clampOperatingPoint,
-  ringingOf,
-  sizeFromRinging,
-  snubberChecks,
-  stepResponse,
-} from '../../shared/engine/snubber';
+import { clampOperatingPoint, ringingOf, sizeFromRinging, snubberChecks, stepResponse } from '../../shared/engine/snubber';
 import type { RcdTurnoffSnubber, RcSnubber } from '../../shared/schema/snubber';
 
 const SEED = 20240607;
-const run = <T extends [unknown, ...unknown[]]>(property: fc.IProperty<T>) =>
-  fc.assert(property, { seed: SEED, numRuns: 200 });
+const run = <T extends [unknown, ...unknown[]]>(property: fc.IProperty<T>) => fc.assert(property, { seed: SEED, numRuns: 200 });
 
 /** A positive number spread evenly over decades between lo and hi. */
-const logScale = (lo: number, hi: number) =>
-  fc.double({ min: Math.log10(lo), max: Math.log10(hi), noNaN: true }).map((e) => 10 ** e);
+const logScale = (lo: number, hi: number) => fc.double({ min: Math.log10(lo), max: Math.log10(hi), noNaN: true }).map((e) => 10 ** e);
 
 const relative = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
 
@@ -60,8 +52,7 @@ describe('damping of an RC snubber across the parasitic tank', () => {
     run(
       fc.property(tank, ({ L, Cp, n }) => {
         const z0 = Math.sqrt(L / Cp);
-        const at = (k: number) =>
-          ringingOf({ inductance: L, nodeCapacitance: Cp, snubber: { resistance: k * z0, capacitance: n * Cp } });
+        const at = (k: number) => ringingOf({ inductance: L, nodeCapacitance: Cp, snubber: { resistance: k * z0, capacitance: n * Cp } });
         const [low, mid, high] = [at(0.3), at(1), at(3)];
         expect(mid.dampingRatio).toBeGreaterThan(low.dampingRatio);
         expect(mid.dampingRatio).toBeGreaterThan(high.dampingRatio);
@@ -117,23 +108,16 @@ describe('dissipation scales with f_sw and with V²', () => {
     accessible: false,
   };
   const turnoff: RcdTurnoffSnubber = { ...rc, kind: 'rcd-turnoff' };
-  const power = (s: RcSnubber | RcdTurnoffSnubber) =>
-    snubberChecks(s).find((c) => c.id === 'snubber-power')?.value ?? NaN;
+  const power = (s: RcSnubber | RcdTurnoffSnubber) => snubberChecks(s).find((c) => c.id === 'snubber-power')?.value ?? NaN;
 
   for (const base of [rc, turnoff]) {
     it(`${base.kind}: P(k·f_sw) = k·P(f_sw) and P(k·V) = k²·P(V)`, () => {
       run(
-        fc.property(
-          logScale(1, 1e4),
-          logScale(1e3, 1e6),
-          logScale(1e-12, 1e-6),
-          fc.double({ min: 0.1, max: 10, noNaN: true }),
-          (v, f, c, k) => {
-            const s = { ...base, switchingVoltage: v, switchingFrequency: f, capacitance: c };
-            expect(relative(power({ ...s, switchingFrequency: k * f }), k * power(s))).toBeLessThan(1e-12);
-            expect(relative(power({ ...s, switchingVoltage: k * v }), k * k * power(s))).toBeLessThan(1e-12);
-          },
-        ),
+        fc.property(logScale(1, 1e4), logScale(1e3, 1e6), logScale(1e-12, 1e-6), fc.double({ min: 0.1, max: 10, noNaN: true }), (v, f, c, k) => {
+          const s = { ...base, switchingVoltage: v, switchingFrequency: f, capacitance: c };
+          expect(relative(power({ ...s, switchingFrequency: k * f }), k * power(s))).toBeLessThan(1e-12);
+          expect(relative(power({ ...s, switchingVoltage: k * v }), k * k * power(s))).toBeLessThan(1e-12);
+        }),
       );
     });
   }

@@ -77,8 +77,7 @@ export function pronyPoles(samples: readonly number[], dt: number, order: 2 | 3)
     }
   }
   const a = (lusolve(ata, atb) as number[][]).map((r) => r[0]);
-  const z =
-    order === 2 ? polynomialRoot(-a[1], -a[0], 1) : polynomialRoot(-a[2], -a[1], -a[0], 1);
+  const z = order === 2 ? polynomialRoot(-a[1], -a[0], 1) : polynomialRoot(-a[2], -a[1], -a[0], 1);
   return z.map((r) => {
     const c = typeof r === 'number' ? { re: r, im: 0 } : { re: r.re, im: r.im };
     return { re: Math.log(Math.hypot(c.re, c.im)) / dt, im: Math.atan2(c.im, c.re) / dt };

@@ -22,7 +22,15 @@ interface Bench {
   stated?: { f0: number; f1: number };
 }
 const benches: Bench[] = [
-  { name: 'E12 node, 48 V', step: 48, inductance: 1 / ((2 * Math.PI * 20e6) ** 2 * 100e-12), nodeCapacitance: 100e-12, loopResistance: 0.5, added: 300e-12, stated: { f0: 20e6, f1: 10e6 } },
+  {
+    name: 'E12 node, 48 V',
+    step: 48,
+    inductance: 1 / ((2 * Math.PI * 20e6) ** 2 * 100e-12),
+    nodeCapacitance: 100e-12,
+    loopResistance: 0.5,
+    added: 300e-12,
+    stated: { f0: 20e6, f1: 10e6 },
+  },
   { name: '400 V stage', step: 400, inductance: 20e-9, nodeCapacitance: 1.2e-9, loopResistance: 0.05, added: 2.2e-9 },
 ];
 

@@ -5,8 +5,7 @@ import { rcSnubberPower, ringingCurves, sizeFromRinging } from '../../shared/eng
 import { E12, E24, nearestPreferred } from '../../shared/engine/snubber-e-series';
 
 /** |actual − expected| within half a unit of the last digit the source prints. */
-const printed = (actual: number, expected: number, lastDigit: number) =>
-  expect(Math.abs(actual - expected)).toBeLessThanOrEqual(lastDigit / 2);
+const printed = (actual: number, expected: number, lastDigit: number) => expect(Math.abs(actual - expected)).toBeLessThanOrEqual(lastDigit / 2);
 
 describe('REFERENCE.md E12 (constructed example, computed; no published source)', () => {
   const measured = { f0: 20e6, cAdd: 300e-12, f1: 10e6 };

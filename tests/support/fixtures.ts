@@ -11,7 +11,17 @@ export const demoRequirement = {
 export const demoDesign = {
   bus: { nominalVoltage: 565, maxVoltage: 622 },
   capacitors: { capacitance: 3.3e-6, series: 1, parallel: 2, toleranceMinus: 0.05, tolerancePlus: 0.05 },
-  bleeder: { resistance: 1.0e5, series: 2, parallel: 1, tolerance: 0.01, tcrPpmPerK: 100, drift: 0, powerRating: 3, elementVoltage: 500, derating: 0.5 },
+  bleeder: {
+    resistance: 1.0e5,
+    series: 2,
+    parallel: 1,
+    tolerance: 0.01,
+    tcrPpmPerK: 100,
+    drift: 0,
+    powerRating: 3,
+    elementVoltage: 500,
+    derating: 0.5,
+  },
   ambient: { min: -25, max: 85 },
   active: null,
 };

@@ -25,10 +25,7 @@ export interface SpiceRun {
  * Simulates `netlist` (a complete deck with title line, elements and a `.tran` line, without `.end`)
  * and returns the requested vectors and `.meas`-style measurements (`meas tran name WHEN …` lines).
  */
-export async function simulate(
-  netlist: string,
-  options: { vectors?: string[]; measures?: string[] } = {},
-): Promise<SpiceRun> {
+export async function simulate(netlist: string, options: { vectors?: string[]; measures?: string[] } = {}): Promise<SpiceRun> {
   const dir = mkdtempSync(join(tmpdir(), 'vf-spice-'));
   try {
     const vectors = options.vectors ?? [];

@@ -29,7 +29,9 @@ const ROOT = resolve(import.meta.dirname, '..', '..');
 
 function command(dataDir: string, options: SpawnOptions): { argv: string[]; env: NodeJS.ProcessEnv } {
   const node = [process.execPath, '--import', 'tsx', ...(options.imports ?? []).flatMap((m) => ['--import', m]), 'server/index.ts'];
-  const argv = options.mountSetup ? ['unshare', '-m', '--propagation', 'private', 'sh', '-c', `${options.mountSetup}\nexec "$@"`, 'sh', ...node] : node;
+  const argv = options.mountSetup
+    ? ['unshare', '-m', '--propagation', 'private', 'sh', '-c', `${options.mountSetup}\nexec "$@"`, 'sh', ...node]
+    : node;
   const env: NodeJS.ProcessEnv = {
     PATH: process.env.PATH,
     HOME: process.env.HOME,
@@ -53,7 +55,9 @@ export async function spawnServer(dataDir: string, options: SpawnOptions = {}, t
   let stderr = '';
   let pending = '';
   child.stderr!.on('data', (c: Buffer) => (stderr += c.toString()));
-  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((done) => child.once('exit', (code, signal) => done({ code, signal })));
+  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((done) =>
+    child.once('exit', (code, signal) => done({ code, signal })),
+  );
   let timer: ReturnType<typeof setTimeout> | undefined;
   const listening = new Promise<number>((done, fail) => {
     child.stdout!.on('data', (c: Buffer) => {
@@ -93,7 +97,11 @@ export async function spawnServer(dataDir: string, options: SpawnOptions = {}, t
 }
 
 /** Runs the server expecting it not to start; resolves with how it ended. */
-export async function runUntilExit(dataDir: string, options: SpawnOptions = {}, timeoutMs = 60_000): Promise<{ code: number | null; stdout: string; stderr: string }> {
+export async function runUntilExit(
+  dataDir: string,
+  options: SpawnOptions = {},
+  timeoutMs = 60_000,
+): Promise<{ code: number | null; stdout: string; stderr: string }> {
   const { argv, env } = command(dataDir, options);
   const child = spawn(argv[0], argv.slice(1), { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'] });
   let stdout = '';

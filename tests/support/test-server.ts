@@ -19,7 +19,10 @@ export interface TestServer extends RunningServer {
   signIn(role: DemoRole): Promise<supertest.Agent>;
   anonymous(): supertest.Agent;
   /** Waits until the fake SMTP server has received a message matching `predicate`. */
-  waitForMail(predicate: (m: { to: string; subject: string; text: string; html: string | null }) => boolean, timeoutMs?: number): Promise<{ to: string; subject: string; text: string; html: string | null }>;
+  waitForMail(
+    predicate: (m: { to: string; subject: string; text: string; html: string | null }) => boolean,
+    timeoutMs?: number,
+  ): Promise<{ to: string; subject: string; text: string; html: string | null }>;
 }
 
 /** A clock the test moves by hand, so expiry is tested without sleeping. */
@@ -38,11 +41,24 @@ export interface TestServerOptions extends StartOptions {
   dataDir?: string;
 }
 
-export async function startTestServer(overrides: Partial<Config> = {}, env: Record<string, string> = {}, options: TestServerOptions = {}): Promise<TestServer> {
+export async function startTestServer(
+  overrides: Partial<Config> = {},
+  env: Record<string, string> = {},
+  options: TestServerOptions = {},
+): Promise<TestServer> {
   const { dataDir: existingDataDir, ...start } = options;
   const dataDir = existingDataDir ?? mkdtempSync(join(tmpdir(), 'vf-test-'));
   const config = loadConfig(
-    { NODE_ENV: 'test', PORT: '0', HOST: '127.0.0.1', VOLTFALL_DATA_DIR: dataDir, FAKE_SMTP_PORT: '0', LOG_LEVEL: 'silent', SIGN_IN_LIMIT_PER_15_MIN: '1000', ...env },
+    {
+      NODE_ENV: 'test',
+      PORT: '0',
+      HOST: '127.0.0.1',
+      VOLTFALL_DATA_DIR: dataDir,
+      FAKE_SMTP_PORT: '0',
+      LOG_LEVEL: 'silent',
+      SIGN_IN_LIMIT_PER_15_MIN: '1000',
+      ...env,
+    },
     overrides,
   );
   const running = await startServer(config, start);
@@ -93,7 +109,11 @@ export async function saveDraft(agent: supertest.Agent, revisionId: number, body
 }
 
 /** A fresh dossier (first product, demo requirement) and its revision 1 draft, authored by the engineer; `design` saved when given. */
-export async function newDraft(server: TestServer, title: string, design?: Record<string, unknown>): Promise<{ engineer: supertest.Agent; id: number; dossierId: number }> {
+export async function newDraft(
+  server: TestServer,
+  title: string,
+  design?: Record<string, unknown>,
+): Promise<{ engineer: supertest.Agent; id: number; dossierId: number }> {
   const engineer = await server.signIn('engineer');
   const products = (await engineer.get('/api/products')).body;
   const dossier = (await engineer.post('/api/dossiers').send({ productId: products[0].id, title, requirement: demoRequirement })).body;

@@ -11,7 +11,10 @@ export async function sessionCookie(baseUrl: string, email: string): Promise<str
     body: JSON.stringify({ email, password: DEMO_PASSWORD }),
   });
   if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status}`);
-  return res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+  return res.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0])
+    .join('; ');
 }
 
 export interface SlowUpload {
@@ -45,10 +48,18 @@ function captureChunk(first: number, bytes: number): Buffer {
 }
 
 /** Opens a waveform upload of `fileBytes` to a draft and sends nothing of the file yet. */
-export function startSlowUpload(baseUrl: string, revisionId: number, cookie: string, fileBytes: number, fields: Record<string, string> = {}): SlowUpload {
+export function startSlowUpload(
+  baseUrl: string,
+  revisionId: number,
+  cookie: string,
+  fileBytes: number,
+  fields: Record<string, string> = {},
+): SlowUpload {
   const head = Buffer.from(
     [
-      ...Object.entries({ kind: 'waveform', ...fields }).map(([k, v]) => `--${BOUNDARY}\r\nContent-Disposition: form-data; name="${k}"\r\n\r\n${v}\r\n`),
+      ...Object.entries({ kind: 'waveform', ...fields }).map(
+        ([k, v]) => `--${BOUNDARY}\r\nContent-Disposition: form-data; name="${k}"\r\n\r\n${v}\r\n`,
+      ),
       `--${BOUNDARY}\r\nContent-Disposition: form-data; name="file"; filename="long-capture.csv"\r\nContent-Type: text/csv\r\n\r\n`,
     ].join(''),
   );

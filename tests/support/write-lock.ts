@@ -21,7 +21,10 @@ export interface HeldLock {
 
 /** Resolves once the other process holds the write lock on `dbFile`. */
 export async function holdWriteLock(dbFile: string): Promise<HeldLock> {
-  const child = spawn(process.execPath, ['-e', HOLDER, dbFile], { cwd: resolve(import.meta.dirname, '..', '..'), stdio: ['pipe', 'pipe', 'inherit'] });
+  const child = spawn(process.execPath, ['-e', HOLDER, dbFile], {
+    cwd: resolve(import.meta.dirname, '..', '..'),
+    stdio: ['pipe', 'pipe', 'inherit'],
+  });
   const exited = new Promise<void>((done) => child.once('exit', () => done()));
   await new Promise<void>((done, fail) => {
     child.stdout!.on('data', (c: Buffer) => c.toString().includes('locked') && done());

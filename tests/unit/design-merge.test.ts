@@ -17,7 +17,9 @@ const draft = fc.record(
     bleeder: fc.record({ resistance: number, series: fc.integer({ min: 1, max: 8 }), powerRating: number }, { requiredKeys: [] }),
     ambient: fc.record({ min: number, max: number }, { requiredKeys: [] }),
     active: fc.constant(null),
-    snubbers: fc.array(fc.record({ kind: fc.constant('rc' as const), name: fc.string({ minLength: 1, maxLength: 8 }), resistance: number }), { maxLength: 3 }),
+    snubbers: fc.array(fc.record({ kind: fc.constant('rc' as const), name: fc.string({ minLength: 1, maxLength: 8 }), resistance: number }), {
+      maxLength: 3,
+    }),
   },
   { requiredKeys: [] },
 ) as fc.Arbitrary<DesignDraft>;
@@ -40,7 +42,7 @@ describe('merging a draft saved elsewhere', () => {
     expect(diffDesignInputs(base, merged).map((c) => c.path)).toEqual(['bleeder.resistance', 'bleeder.powerRating']);
   });
 
-  it('when both sides changed the same input, then this user\'s value is kept', () => {
+  it("when both sides changed the same input, then this user's value is kept", () => {
     const merged = mergeDesigns(base, withBleeder(base, { resistance: 82_000 }), withBleeder(base, { resistance: 68_000 }));
     expect(merged.bleeder?.resistance).toBe(82_000);
   });

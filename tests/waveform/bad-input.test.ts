@@ -62,7 +62,11 @@ describe('files that are not captures', () => {
     const rand = random(22);
     const bytes = new Uint8Array(4096).map(() => Math.floor(rand() * 256));
     bytes.set([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13]);
-    await expectCode(analyseCaptureFile(file('photo.csv', bytes), options), 'NOT_TEXT', /binary data\. Export the capture from the instrument as CSV .*, TSV .* or TXT/);
+    await expectCode(
+      analyseCaptureFile(file('photo.csv', bytes), options),
+      'NOT_TEXT',
+      /binary data\. Export the capture from the instrument as CSV .*, TSV .* or TXT/,
+    );
   });
 
   test('a binary record behind a UTF-16 byte-order mark is still binary', async () => {
@@ -73,7 +77,11 @@ describe('files that are not captures', () => {
   });
 
   test('UTF-16 without a byte-order mark, and UTF-32, are refused naming the encodings that are read', async () => {
-    await expectCode(analyseCaptureFile(file('utf16.csv', Buffer.from(good(), 'utf16le')), options), 'UNSUPPORTED_ENCODING', /without a byte-order mark.*UTF-16 with a byte-order mark/);
+    await expectCode(
+      analyseCaptureFile(file('utf16.csv', Buffer.from(good(), 'utf16le')), options),
+      'UNSUPPORTED_ENCODING',
+      /without a byte-order mark.*UTF-16 with a byte-order mark/,
+    );
     const utf32 = Buffer.alloc(4 * 200);
     utf32.set([0xff, 0xfe, 0, 0]);
     [...good().slice(0, 199)].forEach((c, i) => utf32.writeUInt32LE(c.charCodeAt(0), 4 + 4 * i));
@@ -92,7 +100,11 @@ describe('files that are not captures', () => {
     const marks = [[], [0xef, 0xbb, 0xbf], [0xff, 0xfe], [0xfe, 0xff]];
     const body = fc.oneof(
       fc.uint8Array({ maxLength: 600 }),
-      fc.array(fc.constantFrom('0', '1', '5', '.', ',', ';', '\t', '\n', '\r', '-', 'e', 'E', ' ', '"', '#', ':', '=', 'V', 's', 'µ'), { maxLength: 600 }).map((cs) => cs.join('')),
+      fc
+        .array(fc.constantFrom('0', '1', '5', '.', ',', ';', '\t', '\n', '\r', '-', 'e', 'E', ' ', '"', '#', ':', '=', 'V', 's', 'µ'), {
+          maxLength: 600,
+        })
+        .map((cs) => cs.join('')),
     );
     await fc.assert(
       fc.asyncProperty(fc.constantFrom(...marks), body, fc.boolean(), async (mark, content, wide) => {

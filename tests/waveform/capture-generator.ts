@@ -114,7 +114,10 @@ export interface CaptureText {
   replace?: { row: number; column: number; text: string }[];
 }
 
-export const scientific = (digits = 7) => (x: number) => x.toExponential(digits);
+export const scientific =
+  (digits = 7) =>
+  (x: number) =>
+    x.toExponential(digits);
 
 /** Writes columns as a scope-style text export. */
 export function captureText(columns: readonly Column[], options: CaptureText = {}): string {

@@ -87,7 +87,15 @@ describe('UTF-16 LE/BE and UTF-8 with a byte-order mark read exactly as plain UT
       () => {
         const spec = { ...base, seed: 51 };
         const { time, volts } = sampleDecay(spec);
-        return { text: captureText([{ header: 'Time (s)', values: time }, { header: 'CH1 (V)', values: volts }]), spec, options: {}, exponential: true };
+        return {
+          text: captureText([
+            { header: 'Time (s)', values: time },
+            { header: 'CH1 (V)', values: volts },
+          ]),
+          spec,
+          options: {},
+          exponential: true,
+        };
       },
     ],
     [
@@ -99,7 +107,12 @@ describe('UTF-16 LE/BE and UTF-8 with a byte-order mark read exactly as plain UT
           { header: 'Zeit [ms]', values: time, scale: 1e-3, format: (x: number) => x.toFixed(4) },
           { header: 'Spannung [V]', values: volts, format: (x: number) => x.toFixed(3) },
         ];
-        return { text: captureText(columns, { sep: ';', decimalComma: true, eol: '\r\n', metadata: ['Gerät;Prüfplatz 3 (Ω-Messung aus)'] }), spec, options: {}, exponential: true };
+        return {
+          text: captureText(columns, { sep: ';', decimalComma: true, eol: '\r\n', metadata: ['Gerät;Prüfplatz 3 (Ω-Messung aus)'] }),
+          spec,
+          options: {},
+          exponential: true,
+        };
       },
     ],
     [
@@ -119,7 +132,10 @@ describe('UTF-16 LE/BE and UTF-8 with a byte-order mark read exactly as plain UT
       () => {
         const spec = { ...base, seed: 54 };
         const { volts } = sampleDecay(spec);
-        const text = captureText([{ header: 'x', values: volts, format: (x) => x.toFixed(3) }], { headerRows: null, metadata: ['# start: -50 ms', '# increment: 50 µs'] });
+        const text = captureText([{ header: 'x', values: volts, format: (x) => x.toFixed(3) }], {
+          headerRows: null,
+          metadata: ['# start: -50 ms', '# increment: 50 µs'],
+        });
         return { text, spec, options: {}, exponential: true };
       },
     ],
@@ -141,9 +157,27 @@ describe('UTF-16 LE/BE and UTF-8 with a byte-order mark read exactly as plain UT
     [
       'a constant-current active discharge ([S10] scenario, REFERENCE E4: 1.17 s)',
       () => {
-        const spec: DecaySpec = { shape: 'constant-current', v0: 450, slope: 0.2 / 600e-6, t0: 0, start: -0.2, interval: 2e-4, samples: 8001, noise: 1, seed: 57 };
+        const spec: DecaySpec = {
+          shape: 'constant-current',
+          v0: 450,
+          slope: 0.2 / 600e-6,
+          t0: 0,
+          start: -0.2,
+          interval: 2e-4,
+          samples: 8001,
+          noise: 1,
+          seed: 57,
+        };
         const { time, volts } = sampleDecay(spec);
-        return { text: captureText([{ header: 'Time (s)', values: time }, { header: 'CH1 (V)', values: volts }]), spec, options: {}, exponential: false };
+        return {
+          text: captureText([
+            { header: 'Time (s)', values: time },
+            { header: 'CH1 (V)', values: volts },
+          ]),
+          spec,
+          options: {},
+          exponential: false,
+        };
       },
     ],
   ];
@@ -212,7 +246,9 @@ describe('a voltage scale entered with the capture, and a probe ratio stated in 
     const result = await analyseCaptureText(probeSide(), { safeVoltage: SAFE });
     expectWithin(result.v0, (spec.v0 + (spec.offset ?? 0)) / 100, 0.01);
     expect(result.scale).toBe(1);
-    expect(result.warnings?.[0]).toMatch(/it was not applied\. If the exported values are probe-side volts, upload the capture again with that ratio as the voltage scale/);
+    expect(result.warnings?.[0]).toMatch(
+      /it was not applied\. If the exported values are probe-side volts, upload the capture again with that ratio as the voltage scale/,
+    );
     // 4 V throughout reads as safe at once; the analysis says that it proves no discharge.
     expect(result.timeToSafe).toBe(0);
     expect(result.warnings?.[1]).toMatch(/never rises above 60 V in the capture, so it shows no discharge from a hazardous level/);

@@ -195,7 +195,13 @@ describe('imperfect but exponential traces', () => {
     const spec = { ...base, noise: 0, seed: 15 };
     const { time, volts } = sampleDecay(spec);
     const ring = (t: number) => (t >= 0 ? 20 * Math.exp(-t / 0.002) * Math.sin(2 * Math.PI * 2000 * t) : 0);
-    const result = await analyseCaptureText(twoColumns(time, volts.map((v, i) => v + ring(time[i]))), { safeVoltage: SAFE });
+    const result = await analyseCaptureText(
+      twoColumns(
+        time,
+        volts.map((v, i) => v + ring(time[i])),
+      ),
+      { safeVoltage: SAFE },
+    );
     expectDecay(result, spec);
   });
 
@@ -203,7 +209,13 @@ describe('imperfect but exponential traces', () => {
     const spec = { ...base, noise: 0, seed: 14 };
     const { time, volts } = sampleDecay(spec);
     const step = 500 / 256;
-    const result = await analyseCaptureText(twoColumns(time, volts.map((v) => Math.round(v / step) * step)), { safeVoltage: SAFE });
+    const result = await analyseCaptureText(
+      twoColumns(
+        time,
+        volts.map((v) => Math.round(v / step) * step),
+      ),
+      { safeVoltage: SAFE },
+    );
     expectDecay(result, spec);
   });
 });

@@ -66,7 +66,17 @@ describe('negative rails', () => {
   });
 
   test('negative constant-current active discharge: the crossing is measured though the fit is poor ([S10] scenario, REFERENCE E4: 1.17 s)', async () => {
-    const spec: DecaySpec = { shape: 'constant-current', v0: 450, slope: 0.2 / 600e-6, t0: 0, start: -0.2, interval: 2e-4, samples: 8001, noise: 1, seed: 74 };
+    const spec: DecaySpec = {
+      shape: 'constant-current',
+      v0: 450,
+      slope: 0.2 / 600e-6,
+      t0: 0,
+      start: -0.2,
+      interval: 2e-4,
+      samples: 8001,
+      noise: 1,
+      seed: 74,
+    };
     const analysis = await analyseCaptureText(negativeCapture(spec), { safeVoltage: SAFE });
     expect(analysis).toMatchObject({ polarity: 'negative', fit: 'poor', tau: null });
     expectWithin(analysis.timeToSafe, 1.17, 0.01);
@@ -106,7 +116,11 @@ describe('negative rails', () => {
       fc.asyncProperty(specArb, async (s) => {
         const spec: DecaySpec = { ...s, start: -0.05, interval: 5e-4, samples: 3001 };
         const { time, volts } = sampleDecay(spec);
-        const write = (values: number[]) => captureText([{ header: 'Time (s)', values: time }, { header: 'CH1 (V)', values }]);
+        const write = (values: number[]) =>
+          captureText([
+            { header: 'Time (s)', values: time },
+            { header: 'CH1 (V)', values },
+          ]);
         const positive = await analyseCaptureText(write(volts), { safeVoltage: SAFE, maxTime: 0.5 });
         const negative = await analyseCaptureText(write(volts.map((v) => -v)), { safeVoltage: SAFE, maxTime: 0.5 });
         expect(negative.polarity).toBe('negative');
@@ -137,7 +151,10 @@ describe('a swing of the other sign beyond the safe level is not safe', () => {
     const normal = gaussian(random(81));
     const time = Array.from({ length: 8001 }, (_, i) => -0.05 + i * 2e-4);
     const volts = time.map((t) => law(t) + (t > 0 ? settle : 0) + 0.5 * normal());
-    return captureText([{ header: 'Time (s)', values: time }, { header: 'CH1 (V)', values: volts }]);
+    return captureText([
+      { header: 'Time (s)', values: time },
+      { header: 'CH1 (V)', values: volts },
+    ]);
   };
 
   test('the time to safe is when the swing comes back inside −60 V, not when the fall first passes +60 V', async () => {

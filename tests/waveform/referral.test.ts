@@ -68,14 +68,37 @@ describe('start voltage: a capture from below the maximum bus is referred to it'
 
   test('a trace that is not a clean exponential cannot be referred: the check fails and asks for a capture from the maximum bus', async () => {
     // [S10] scenario, REFERENCE E4: a constant-current discharge, here captured from 400 V of a 450 V bus.
-    const { time, volts } = sampleDecay({ shape: 'constant-current', v0: 400, slope: 0.2 / 600e-6, t0: 0, start: -0.1, interval: 1e-4, samples: 15001, noise: 0.5, seed: 7 });
-    const analysis = await analyseCaptureText(captureText([{ header: 'Time (s)', values: time }, { header: 'CH1 (V)', values: volts }]), { safeVoltage: 60 });
+    const { time, volts } = sampleDecay({
+      shape: 'constant-current',
+      v0: 400,
+      slope: 0.2 / 600e-6,
+      t0: 0,
+      start: -0.1,
+      interval: 1e-4,
+      samples: 15001,
+      noise: 0.5,
+      seed: 7,
+    });
+    const analysis = await analyseCaptureText(
+      captureText([
+        { header: 'Time (s)', values: time },
+        { header: 'CH1 (V)', values: volts },
+      ]),
+      { safeVoltage: 60 },
+    );
     expect(analysis.fit).toBe('poor');
-    const checks = measuredDischargeCheck(analysis, { safeVoltage: 60, maxTime: 2, maxVoltage: 450, capacitanceMin: 480e-6 }, predicted, 'active.csv');
+    const checks = measuredDischargeCheck(
+      analysis,
+      { safeVoltage: 60, maxTime: 2, maxVoltage: 450, capacitanceMin: 480e-6 },
+      predicted,
+      'active.csv',
+    );
     expect(checks).toHaveLength(1);
     expect(checks[0]).toMatchObject({ value: null, pass: false, margin: null });
     expect(checks[0].referral?.start).toBe('not-referable');
-    expect(checks[0].detail).toMatch(/starts below the 450 V maximum bus and is not a clean exponential \(poor fit\), so it cannot be referred to it: capture a discharge from the maximum bus voltage/);
+    expect(checks[0].detail).toMatch(
+      /starts below the 450 V maximum bus and is not a clean exponential \(poor fit\), so it cannot be referred to it: capture a discharge from the maximum bus voltage/,
+    );
   });
 });
 
@@ -92,7 +115,9 @@ describe('instrument loading: the measured τ is referred to the circuit without
     within(time.value, R * C_MIN * Math.log(6), 0.01);
     expect(time.referral).toMatchObject({ probeResistance: 1e6, loadingCapacitance: C_MIN });
     within(time.referral?.unloadedTau ?? null, R * C_MIN, 0.01);
-    expect(time.detail).toMatch(/instrument loading corrected for 1 MΩ across 1\.19 µF \(C at its lower tolerance\): 1\/τ = 1\/τ_measured − 1\/\(R_m·C\), τ 21\d ms measured → 26\d ms unloaded/);
+    expect(time.detail).toMatch(
+      /instrument loading corrected for 1 MΩ across 1\.19 µF \(C at its lower tolerance\): 1\/τ = 1\/τ_measured − 1\/\(R_m·C\), τ 21\d ms measured → 26\d ms unloaded/,
+    );
     expect(tau.detail).toMatch(/^Fitted τ 26\d ms unloaded \(21\d ms as measured, R² [01]\.\d{4}\) is within the band/);
   });
 
@@ -118,9 +143,30 @@ describe('instrument loading: the measured τ is referred to the circuit without
   });
 
   test('on a trace that is not a clean exponential the loading cannot be taken out: the check fails', async () => {
-    const { time, volts } = sampleDecay({ shape: 'constant-current', v0: 450, slope: 0.2 / 600e-6, t0: 0, start: -0.1, interval: 1e-4, samples: 15001, noise: 0.5, seed: 8 });
-    const analysis = await analyseCaptureText(captureText([{ header: 'Time (s)', values: time }, { header: 'CH1 (V)', values: volts }]), { safeVoltage: 60 });
-    const checks = measuredDischargeCheck({ ...analysis, probeResistance: 10e6 }, { safeVoltage: 60, maxTime: 2, maxVoltage: 440, capacitanceMin: 480e-6 }, predicted, 'active.csv');
+    const { time, volts } = sampleDecay({
+      shape: 'constant-current',
+      v0: 450,
+      slope: 0.2 / 600e-6,
+      t0: 0,
+      start: -0.1,
+      interval: 1e-4,
+      samples: 15001,
+      noise: 0.5,
+      seed: 8,
+    });
+    const analysis = await analyseCaptureText(
+      captureText([
+        { header: 'Time (s)', values: time },
+        { header: 'CH1 (V)', values: volts },
+      ]),
+      { safeVoltage: 60 },
+    );
+    const checks = measuredDischargeCheck(
+      { ...analysis, probeResistance: 10e6 },
+      { safeVoltage: 60, maxTime: 2, maxVoltage: 440, capacitanceMin: 480e-6 },
+      predicted,
+      'active.csv',
+    );
     expect(checks).toHaveLength(1);
     expect(checks[0]).toMatchObject({ value: null, pass: false });
     expect(checks[0].detail).toMatch(/cannot be taken out of a trace that is not a clean exponential/);
@@ -140,7 +186,17 @@ describe('one check per capture in a revision’s results', () => {
     const design = {
       bus: { nominalVoltage: 325, maxVoltage: 360 },
       capacitors: { capacitance: C, series: 1, parallel: 1, toleranceMinus: 0.1, tolerancePlus: 0.1 },
-      bleeder: { resistance: R, series: 1, parallel: 1, tolerance: 0.01, tcrPpmPerK: 0, drift: 0, powerRating: 1, elementVoltage: 500, derating: 0.5 },
+      bleeder: {
+        resistance: R,
+        series: 1,
+        parallel: 1,
+        tolerance: 0.01,
+        tcrPpmPerK: 0,
+        drift: 0,
+        powerRating: 1,
+        elementVoltage: 500,
+        derating: 0.5,
+      },
       ambient: { min: 25, max: 25 },
       active: null,
     };
@@ -163,7 +219,9 @@ describe('one check per capture in a revision’s results', () => {
     expect(new Set(result.checks.map((c) => c.id)).size).toBe(result.checks.length);
     // The referral figures reach the stored results: C at its lower tolerance is the bank's −10 %.
     expect(measured[0].referral).toMatchObject({ maxVoltage: 360, probeResistance: null });
-    const loaded = computeRevisionResults(requirement, design, [{ evidenceId: 1, sha256: a, name: 'x.csv', analysis: { ...analysis, probeResistance: 10e6 } }]);
+    const loaded = computeRevisionResults(requirement, design, [
+      { evidenceId: 1, sha256: a, name: 'x.csv', analysis: { ...analysis, probeResistance: 10e6 } },
+    ]);
     expect(loaded.checks.find((c) => c.id === 'measured-discharge:aaaaaaaaaaaa')?.referral?.loadingCapacitance).toBeCloseTo(C * 0.9, 12);
   });
 });

@@ -38,7 +38,15 @@ const captureArb = fc.integer({ min: 1, max: 4 }).chain((channels) =>
     eol: fc.constantFrom('\n', '\r\n'),
     trailingNewline: fc.boolean(),
     metadata: fc.array(
-      fc.constantFrom('Instrument,bench scope', 'Serial: 20931', 'Operator=lab', 'Coupling;DC', 'Trigger\tfalling edge', '# Probe: 10X', '% Zone = Prüfplatz µ3'),
+      fc.constantFrom(
+        'Instrument,bench scope',
+        'Serial: 20931',
+        'Operator=lab',
+        'Coupling;DC',
+        'Trigger\tfalling edge',
+        '# Probe: 10X',
+        '% Zone = Prüfplatz µ3',
+      ),
       { maxLength: 4 },
     ),
     headers: fc.array(fc.constantFrom('CH', 'U', 'Probe '), { minLength: channels, maxLength: channels }),

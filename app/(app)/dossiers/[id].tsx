@@ -22,8 +22,18 @@ export default function DossierScreen() {
   const start = useStartRevision(id);
   const audit = useAudit(id, me.role === 'reviewer' || me.role === 'admin');
 
-  if (dossier.isError) return <Screen title="Dossier" testID="dossier-screen"><Message tone="error" text={dossier.error.message} /></Screen>;
-  if (!dossier.data) return <Screen title="Dossier" testID="dossier-screen"><Text style={type.body}>Loading…</Text></Screen>;
+  if (dossier.isError)
+    return (
+      <Screen title="Dossier" testID="dossier-screen">
+        <Message tone="error" text={dossier.error.message} />
+      </Screen>
+    );
+  if (!dossier.data)
+    return (
+      <Screen title="Dossier" testID="dossier-screen">
+        <Text style={type.body}>Loading…</Text>
+      </Screen>
+    );
   const d = dossier.data;
   const openDraft = d.revisions.find((r) => r.status === 'draft');
   const latest = d.revisions[0];
@@ -73,7 +83,8 @@ export default function DossierScreen() {
               </View>
               <Text style={type.small}>
                 {r.author.name}
-                {r.createdFrom ? ` · started from revision ${d.revisions.find((o) => o.id === r.createdFrom)?.number ?? '?'}` : ''} · created {formatWhen(r.createdAt)}
+                {r.createdFrom ? ` · started from revision ${d.revisions.find((o) => o.id === r.createdFrom)?.number ?? '?'}` : ''} · created{' '}
+                {formatWhen(r.createdAt)}
                 {r.submittedAt ? ` · submitted ${formatWhen(r.submittedAt)}` : ''}
                 {r.decidedAt ? ` · decided ${formatWhen(r.decidedAt)}` : ''}
               </Text>
@@ -86,11 +97,21 @@ export default function DossierScreen() {
         {signed.length === 0 ? <Text style={type.body}>No approved revision yet.</Text> : null}
         {signed.map((r) => (
           <View key={r.id} style={styles.row} testID={`signed-pdf-${r.number}`}>
-            <Text style={type.body}>Revision {r.number}, approved {formatWhen(r.decidedAt)}</Text>
-            <a href={`/api/revisions/${r.id}/dossier.pdf`} download={`voltfall-dossier-${d.id}-rev${r.number}.pdf`} style={{ color: colors.info, fontFamily: fonts.semibold }}>
+            <Text style={type.body}>
+              Revision {r.number}, approved {formatWhen(r.decidedAt)}
+            </Text>
+            <a
+              href={`/api/revisions/${r.id}/dossier.pdf`}
+              download={`voltfall-dossier-${d.id}-rev${r.number}.pdf`}
+              style={{ color: colors.info, fontFamily: fonts.semibold }}
+            >
               Download signed PDF
             </a>
-            {r.signedPdf ? <Text style={[type.mono, styles.hash]}>sha256 {r.signedPdf.sha256}</Text> : <Text style={type.small}>Signed on first download.</Text>}
+            {r.signedPdf ? (
+              <Text style={[type.mono, styles.hash]}>sha256 {r.signedPdf.sha256}</Text>
+            ) : (
+              <Text style={type.small}>Signed on first download.</Text>
+            )}
           </View>
         ))}
       </Card>

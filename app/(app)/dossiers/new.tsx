@@ -33,7 +33,8 @@ function problemsOf(form: Form): FieldError[] {
     if (!p.success) problems.push(...p.error.issues.map((i) => ({ path: `product.${i.path.join('.')}`, message: i.message })));
   }
   const r = dossierCreateSchema.safeParse({ productId: 1, title: form.title, requirement: form.requirement });
-  if (!r.success) problems.push(...r.error.issues.filter((i) => i.path[0] !== 'productId').map((i) => ({ path: i.path.join('.'), message: i.message })));
+  if (!r.success)
+    problems.push(...r.error.issues.filter((i) => i.path[0] !== 'productId').map((i) => ({ path: i.path.join('.'), message: i.message })));
   return problems;
 }
 
@@ -42,7 +43,12 @@ export default function NewDossierScreen() {
   const products = useProducts();
   const createProduct = useCreateProduct();
   const createDossier = useCreateDossier();
-  const [form, setForm] = useState<Form>({ productChoice: '', product: { name: '', modelNumber: '', description: '' }, title: '', requirement: EMPTY_REQUIREMENT });
+  const [form, setForm] = useState<Form>({
+    productChoice: '',
+    product: { name: '', modelNumber: '', description: '' },
+    title: '',
+    requirement: EMPTY_REQUIREMENT,
+  });
   // After the first attempt the form re-checks as it is edited, so a message leaves once it is answered.
   const [attempted, setAttempted] = useState(false);
   const [serverErrors, setServerErrors] = useState<FieldError[]>([]);
@@ -61,7 +67,10 @@ export default function NewDossierScreen() {
     setServerErrors([]);
     if (problemsOf(form).length) return;
     try {
-      const productId = form.productChoice === NEW_PRODUCT ? (await createProduct.mutateAsync(productCreateSchema.parse(form.product))).id : Number(form.productChoice);
+      const productId =
+        form.productChoice === NEW_PRODUCT
+          ? (await createProduct.mutateAsync(productCreateSchema.parse(form.product))).id
+          : Number(form.productChoice);
       const dossier = await createDossier.mutateAsync(dossierCreateSchema.parse({ productId, title: form.title, requirement: form.requirement }));
       router.replace(`/revisions/${dossier.revisions[0].id}`);
     } catch (err) {
@@ -79,23 +88,60 @@ export default function NewDossierScreen() {
     >
       <Card title="Product">
         {products.isError ? <Message tone="error" text={products.error.message} /> : null}
-        <ProductPicker products={products.data ?? []} value={form.productChoice} onChange={(productChoice) => edit({ productChoice })} testID="dossier-product" />
+        <ProductPicker
+          products={products.data ?? []}
+          value={form.productChoice}
+          onChange={(productChoice) => edit({ productChoice })}
+          testID="dossier-product"
+        />
         {errorAt('productId') ? <Message tone="error" text={errorAt('productId')!} testID="dossier-product-error" /> : null}
         {form.productChoice === NEW_PRODUCT ? (
           <View style={styles.row}>
-            <TextField label="Product name" testID="product-name" value={form.product.name} onChangeText={(name) => edit({ product: { ...form.product, name } })} error={errorAt('product.name')} />
-            <TextField label="Model number" testID="product-model" value={form.product.modelNumber} onChangeText={(modelNumber) => edit({ product: { ...form.product, modelNumber } })} error={errorAt('product.modelNumber')} />
-            <TextField label="Description" testID="product-description" value={form.product.description} onChangeText={(description) => edit({ product: { ...form.product, description } })} />
+            <TextField
+              label="Product name"
+              testID="product-name"
+              value={form.product.name}
+              onChangeText={(name) => edit({ product: { ...form.product, name } })}
+              error={errorAt('product.name')}
+            />
+            <TextField
+              label="Model number"
+              testID="product-model"
+              value={form.product.modelNumber}
+              onChangeText={(modelNumber) => edit({ product: { ...form.product, modelNumber } })}
+              error={errorAt('product.modelNumber')}
+            />
+            <TextField
+              label="Description"
+              testID="product-description"
+              value={form.product.description}
+              onChangeText={(description) => edit({ product: { ...form.product, description } })}
+            />
           </View>
         ) : null}
       </Card>
       <Card title="Dossier">
         <View style={styles.row}>
-          <TextField label="Title" testID="dossier-title" placeholder="e.g. DC-link residual voltage at service access" value={form.title} onChangeText={(title) => edit({ title })} error={errorAt('title')} />
+          <TextField
+            label="Title"
+            testID="dossier-title"
+            placeholder="e.g. DC-link residual voltage at service access"
+            value={form.title}
+            onChangeText={(title) => edit({ title })}
+            error={errorAt('title')}
+          />
         </View>
       </Card>
-      <Text style={type.small}>The limit is yours to enter from the edition of the standard you work to; the typical requirements are starting points to verify.</Text>
-      <RequirementEditor value={form.requirement} onChange={(requirement) => edit({ requirement })} testIDPrefix="dossier-req" serverErrors={errors} presetsOpen />
+      <Text style={type.small}>
+        The limit is yours to enter from the edition of the standard you work to; the typical requirements are starting points to verify.
+      </Text>
+      <RequirementEditor
+        value={form.requirement}
+        onChange={(requirement) => edit({ requirement })}
+        testIDPrefix="dossier-req"
+        serverErrors={errors}
+        presetsOpen
+      />
       {general ? <Message tone="error" text={general.message} /> : null}
       {errors.length && !general ? <Message tone="error" text="Some fields need attention (marked above)." testID="new-dossier-errors" /> : null}
       <View style={styles.actions}>

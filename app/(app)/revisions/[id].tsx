@@ -29,8 +29,18 @@ export default function RevisionScreen() {
   const revision = useRevision(id);
   const [tab, setTab] = useState<Tab>(params.tab ?? 'design');
 
-  if (revision.isError) return <Screen title="Revision" testID="revision-screen"><Message tone="error" text={revision.error.message} /></Screen>;
-  if (!revision.data) return <Screen title="Revision" testID="revision-screen"><Text style={type.body}>Loading…</Text></Screen>;
+  if (revision.isError)
+    return (
+      <Screen title="Revision" testID="revision-screen">
+        <Message tone="error" text={revision.error.message} />
+      </Screen>
+    );
+  if (!revision.data)
+    return (
+      <Screen title="Revision" testID="revision-screen">
+        <Text style={type.body}>Loading…</Text>
+      </Screen>
+    );
   const rev = revision.data;
 
   return (
@@ -41,7 +51,19 @@ export default function RevisionScreen() {
       // The Design tab's results carry the caution line themselves; once on a screen is enough.
       showCaution={tab !== 'design'}
       actions={
-        <a href={`/api/revisions/${rev.id}/dossier.pdf`} download={`voltfall-dossier-${rev.dossierId}-rev${rev.number}.pdf`} data-testid="export-pdf" style={{ color: colors.surface, backgroundColor: colors.brand, fontFamily: fonts.semibold, padding: '11px 16px', borderRadius: 8, textDecoration: 'none' }}>
+        <a
+          href={`/api/revisions/${rev.id}/dossier.pdf`}
+          download={`voltfall-dossier-${rev.dossierId}-rev${rev.number}.pdf`}
+          data-testid="export-pdf"
+          style={{
+            color: colors.surface,
+            backgroundColor: colors.brand,
+            fontFamily: fonts.semibold,
+            padding: '11px 16px',
+            borderRadius: 8,
+            textDecoration: 'none',
+          }}
+        >
           {rev.status === 'approved' ? 'Export signed PDF' : 'Export draft PDF'}
         </a>
       }

@@ -76,7 +76,11 @@ export async function up(knex: Knex): Promise<void> {
     t.index(['revision_id']);
     t.index(['sha256']);
   });
-  for (const [event, row] of [['INSERT', 'NEW'], ['UPDATE', 'OLD'], ['DELETE', 'OLD']] as const) {
+  for (const [event, row] of [
+    ['INSERT', 'NEW'],
+    ['UPDATE', 'OLD'],
+    ['DELETE', 'OLD'],
+  ] as const) {
     await knex.raw(`CREATE TRIGGER evidence_frozen_${event.toLowerCase()} BEFORE ${event} ON evidence
       WHEN (SELECT status FROM revision WHERE id = ${row}.revision_id) <> 'draft'
       BEGIN SELECT RAISE(ABORT, 'revision is frozen: its evidence list cannot change'); END`);

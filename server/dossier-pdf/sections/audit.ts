@@ -42,7 +42,10 @@ export function auditSection(model: DossierPdfModel): Content[] {
           { text: 'Event', bold: true, fillColor: COLOURS.band },
           { text: 'Event hash', bold: true, fillColor: COLOURS.band },
         ],
-        rows: audit.events.map((e): TableCell[] => [`${dateTime(e.at)} — ${auditSentence(e)}`, { text: `${e.hash.slice(0, 12)}…`, font: MONO, fontSize: 7 }]),
+        rows: audit.events.map((e): TableCell[] => [
+          `${dateTime(e.at)} — ${auditSentence(e)}`,
+          { text: `${e.hash.slice(0, 12)}…`, font: MONO, fontSize: 7 },
+        ]),
         widths: ['*', 70],
         fontSize: 8,
       }),

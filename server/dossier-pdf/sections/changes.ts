@@ -24,7 +24,10 @@ function sideText(pass: boolean | null, value: number | null, unit: string, info
 
 function checkRows(model: DossierPdfModel, checks: readonly ChangedCheck[]): TableCell[][] {
   const own = new Map(model.revision.results.checks.map((c) => [c.id, c]));
-  const files = [...model.evidence.map((e) => ({ name: e.originalName, sha256: e.sha256 })), ...(model.diff?.evidenceRemoved ?? []).map((e) => ({ name: e.originalName, sha256: e.sha256 }))];
+  const files = [
+    ...model.evidence.map((e) => ({ name: e.originalName, sha256: e.sha256 })),
+    ...(model.diff?.evidenceRemoved ?? []).map((e) => ({ name: e.originalName, sha256: e.sha256 })),
+  ];
   const captureName = (c: ChangedCheck) => {
     if (c.evidence) return c.evidence.name;
     const sha = captureOf(c, files);
@@ -40,7 +43,11 @@ function checkRows(model: DossierPdfModel, checks: readonly ChangedCheck[]): Tab
     const unit = c.unit ?? own.get(c.id)?.unit ?? '';
     // A check without a limit now is for information on both sides.
     const informational = own.get(c.id)?.limit === null;
-    return [{ text: c.label, margin: [indent, 0, 0, 0] }, sideText(c.fromPass, c.from, unit, informational), sideText(c.toPass, c.to, unit, informational)];
+    return [
+      { text: c.label, margin: [indent, 0, 0, 0] },
+      sideText(c.fromPass, c.from, unit, informational),
+      sideText(c.toPass, c.to, unit, informational),
+    ];
   };
   return [
     ...calculated.map((c) => row(c)),
@@ -76,7 +83,10 @@ export function changesSection(model: DossierPdfModel): Content[] {
   }
   content.push(subheading('Checks'));
   if (!diff.checks.length) content.push({ text: 'No check result changed.', italics: true });
-  else content.push(grid(['Check', `Revision ${diff.against.number}`, `Revision ${model.revision.number}`], checkRows(model, diff.checks), ['*', 120, 120]));
+  else
+    content.push(
+      grid(['Check', `Revision ${diff.against.number}`, `Revision ${model.revision.number}`], checkRows(model, diff.checks), ['*', 120, 120]),
+    );
   content.push(subheading('Evidence'));
   if (!diff.evidenceAdded.length && !diff.evidenceRemoved.length) content.push({ text: 'The same evidence files as before.', italics: true });
   for (const [list, word, colour] of [
@@ -84,7 +94,10 @@ export function changesSection(model: DossierPdfModel): Content[] {
     [diff.evidenceRemoved, 'Removed', COLOURS.fail],
   ] as const) {
     for (const e of list) {
-      content.push({ text: [{ text: `${word}  `, bold: true, color: colour }, `${e.originalName}  `, { text: e.sha256, font: MONO, fontSize: 7 }], margin: [0, 0, 0, 2] });
+      content.push({
+        text: [{ text: `${word}  `, bold: true, color: colour }, `${e.originalName}  `, { text: e.sha256, font: MONO, fontSize: 7 }],
+        margin: [0, 0, 0, 2],
+      });
     }
   }
   content.push(subheading('Notes'));

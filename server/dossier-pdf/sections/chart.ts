@@ -27,24 +27,43 @@ function chartSeries(model: DossierPdfModel): ChartSeries[] {
   if (results.curve.length) {
     series.push(
       { label: 'Nominal (calculated)', kind: 'model', color: COLOURS.nominal, width: 1.2, points: results.curve.map((p) => ({ t: p.t, v: p.v })) },
-      { label: 'Worst case (calculated)', kind: 'model', color: COLOURS.worst, width: 1.4, dash: '6 2', points: results.curve.map((p) => ({ t: p.t, v: p.vWorst })) },
+      {
+        label: 'Worst case (calculated)',
+        kind: 'model',
+        color: COLOURS.worst,
+        width: 1.4,
+        dash: '6 2',
+        points: results.curve.map((p) => ({ t: p.t, v: p.vWorst })),
+      },
     );
   }
   for (const e of captures) {
-    series.push({ label: `Measured: ${e.originalName}`, kind: 'measured', color: traceColour(captures.indexOf(e)), width: 1, points: measuredPoints(e.analysis) });
+    series.push({
+      label: `Measured: ${e.originalName}`,
+      kind: 'measured',
+      color: traceColour(captures.indexOf(e)),
+      width: 1,
+      points: measuredPoints(e.analysis),
+    });
   }
   return series;
 }
 
 function chartSvg(model: DossierPdfModel, series: ChartSeries[], height: number): Content {
   const req = model.dossier.requirement;
-  return { svg: decayChartSvg({ series, safeVoltage: req.safeVoltage, maxTime: req.maxTime, width: CONTENT_WIDTH, height, fontFamily: FONT }), width: CONTENT_WIDTH };
+  return {
+    svg: decayChartSvg({ series, safeVoltage: req.safeVoltage, maxTime: req.maxTime, width: CONTENT_WIDTH, height, fontFamily: FONT }),
+    width: CONTENT_WIDTH,
+  };
 }
 
 export function chartSection(model: DossierPdfModel): Content[] {
   const series = chartSeries(model);
   if (!series.length) {
-    return keepWithHeadings([heading('4  Decay chart'), { text: 'No curve: the design inputs are incomplete and no waveform was attached.', italics: true }]);
+    return keepWithHeadings([
+      heading('4  Decay chart'),
+      { text: 'No curve: the design inputs are incomplete and no waveform was attached.', italics: true },
+    ]);
   }
   return [
     {
@@ -74,8 +93,17 @@ function instantsTable(model: DossierPdfModel): Content {
       ? { text: 'not reached', color: COLOURS.fail }
       : { text: t <= limit ? 'within the limit' : 'beyond the limit', color: t <= limit ? COLOURS.pass : COLOURS.fail };
   const rows: TableCell[][] = [];
-  for (const [label, state] of [['Nominal (calculated)', nominal], ['Worst case (calculated)', worstCase]] as const) {
-    if (state) rows.push([label, quantity(state.initialVoltage, 'V'), `${quantity(state.timeToSafe, 's')} (to ${quantity(state.safeThreshold, 'V')})`, verdict(state.timeToSafe)]);
+  for (const [label, state] of [
+    ['Nominal (calculated)', nominal],
+    ['Worst case (calculated)', worstCase],
+  ] as const) {
+    if (state)
+      rows.push([
+        label,
+        quantity(state.initialVoltage, 'V'),
+        `${quantity(state.timeToSafe, 's')} (to ${quantity(state.safeThreshold, 'V')})`,
+        verdict(state.timeToSafe),
+      ]);
   }
   waveforms(model).forEach((e, i) => {
     const a = e.analysis;

@@ -30,7 +30,10 @@ function checkBlock(check: Check): Content {
       {
         columns: [
           { text: [{ text: 'Value  ', color: COLOURS.muted }, quantity(check.value, check.unit)], width: '*' },
-          { text: [{ text: 'Limit  ', color: COLOURS.muted }, info ? 'none (shown for information)' : quantity(check.limit, check.unit)], width: '*' },
+          {
+            text: [{ text: 'Limit  ', color: COLOURS.muted }, info ? 'none (shown for information)' : quantity(check.limit, check.unit)],
+            width: '*',
+          },
           { text: [{ text: 'Margin  ', color: COLOURS.muted }, check.margin === null ? '—' : `${percent(check.margin)} of the limit`], width: '*' },
         ],
         margin: [12, 0, 0, 2],
@@ -49,7 +52,9 @@ export function checksSection(model: DossierPdfModel): Content[] {
     heading('2  Checks', true),
     lead(cautionLine() as Exclude<Content, string | number | Content[]>),
     lead({ text: [{ text: 'Result: ', bold: true }, VERDICT_WORDS[results.verdict]], margin: [0, 0, 0, 4] }),
-    caption(`Engine version ${results.engineVersion}. Margin is (limit − value) / limit: positive means inside the limit. A check without a limit is shown for information and decides nothing.`),
+    caption(
+      `Engine version ${results.engineVersion}. Margin is (limit − value) / limit: positive means inside the limit. A check without a limit is shown for information and decides nothing.`,
+    ),
   ];
   if (results.missing.length) {
     content.push(lead({ text: 'Inputs still missing:', bold: true }), { ul: results.missing.map(inputLabel), margin: [0, 0, 0, 6] });
@@ -71,7 +76,13 @@ export function checksSection(model: DossierPdfModel): Content[] {
       lead({
         columns: [
           ...(index >= 0 ? [swatch(traceColour(index))] : []),
-          { text: [{ text: entry ? entry.originalName : 'Capture not among this revision’s evidence', bold: true }, entry ? { text: `   SHA-256 ${entry.sha256.slice(0, 16)}…`, color: COLOURS.muted, fontSize: 7.5 } : ''], width: '*' },
+          {
+            text: [
+              { text: entry ? entry.originalName : 'Capture not among this revision’s evidence', bold: true },
+              entry ? { text: `   SHA-256 ${entry.sha256.slice(0, 16)}…`, color: COLOURS.muted, fontSize: 7.5 } : '',
+            ],
+            width: '*',
+          },
         ],
         margin: [0, 4, 0, 0],
       }),

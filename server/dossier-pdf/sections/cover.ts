@@ -19,7 +19,7 @@ export function cover(model: DossierPdfModel): Content[] {
   const req = dossier.requirement;
   const approved = revision.status === 'approved';
   const decisions = decisionsOnRevision(model);
-  const reviewer = approved ? approvalOf(model) : decisions[decisions.length - 1] ?? null;
+  const reviewer = approved ? approvalOf(model) : (decisions[decisions.length - 1] ?? null);
 
   const content: Content[] = [
     { text: model.organisation, color: COLOURS.muted, fontSize: 10, margin: [0, 0, 0, 14] },
@@ -61,13 +61,23 @@ export function cover(model: DossierPdfModel): Content[] {
       ['Status', { text: STATUS_WORDS[revision.status], bold: true, color: approved ? COLOURS.pass : COLOURS.fail }],
       ['Calculated result', VERDICT_WORDS[revision.results.verdict]],
       ['Author', `${revision.author.name} <${revision.author.email}>`],
-      [approved ? 'Approved by' : 'Reviewer', reviewer ? `${reviewer.signerName ?? reviewer.reviewer.name} <${reviewer.reviewer.email}>` : '— (no review decision yet)'],
+      [
+        approved ? 'Approved by' : 'Reviewer',
+        reviewer ? `${reviewer.signerName ?? reviewer.reviewer.name} <${reviewer.reviewer.email}>` : '— (no review decision yet)',
+      ],
       ['Created', timestamp(revision.createdAt)],
       ['Submitted for review', timestamp(revision.submittedAt)],
       ['Decided', timestamp(revision.decidedAt)],
       ['Revision content hash (SHA-256)', mono(revision.contentHash, 7.5)],
       ['Dossier generated', timestamp(model.generatedAt)],
-      ['Trusted time', approved ? (signer.timestampAuthority ? 'RFC 3161 signature timestamp (see the signature page)' : 'none — signed without a timestamp') : '— (applied when approved)'],
+      [
+        'Trusted time',
+        approved
+          ? signer.timestampAuthority
+            ? 'RFC 3161 signature timestamp (see the signature page)'
+            : 'none — signed without a timestamp'
+          : '— (applied when approved)',
+      ],
     ]),
     cautionsBox(),
   );

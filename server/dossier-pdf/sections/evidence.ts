@@ -48,7 +48,14 @@ function manifest(model: DossierPdfModel): Content {
             bytes(e.size).replace(' (', '\n('),
             `${e.uploadedBy.name}\n${timestamp(e.uploadedAt)}`,
           ]),
-          { text: [{ text: 'SHA-256  ', color: COLOURS.muted }, { text: e.sha256, font: MONO }], fontSize: 7.5, margin: [0, 2, 0, 0] },
+          {
+            text: [
+              { text: 'SHA-256  ', color: COLOURS.muted },
+              { text: e.sha256, font: MONO },
+            ],
+            fontSize: 7.5,
+            margin: [0, 2, 0, 0],
+          },
         ],
       },
     ]),
@@ -77,12 +84,18 @@ function analysisFacts(a: WaveformAnalysis, req: Requirement): Content {
       [
         'Measured time to the safe voltage',
         {
-          text: a.timeToSafe === null ? `never below ${quantity(a.safeVoltage, 'V')} in the record` : `${quantity(a.timeToSafe, 's')} to ${quantity(a.safeVoltage, 'V')} (${within ? 'within' : 'beyond'} ${quantity(req.maxTime, 's')}, as measured)`,
+          text:
+            a.timeToSafe === null
+              ? `never below ${quantity(a.safeVoltage, 'V')} in the record`
+              : `${quantity(a.timeToSafe, 's')} to ${quantity(a.safeVoltage, 'V')} (${within ? 'within' : 'beyond'} ${quantity(req.maxTime, 's')}, as measured)`,
           color: within ? COLOURS.pass : COLOURS.fail,
           bold: true,
         },
       ],
-      [`Voltage at t0 + ${quantity(req.maxTime, 's')}`, a.vAtLimit === undefined ? '— (not analysed)' : a.vAtLimit === null ? '— (record ends earlier)' : quantity(a.vAtLimit, 'V')],
+      [
+        `Voltage at t0 + ${quantity(req.maxTime, 's')}`,
+        a.vAtLimit === undefined ? '— (not analysed)' : a.vAtLimit === null ? '— (record ends earlier)' : quantity(a.vAtLimit, 'V'),
+      ],
       ['Fitted time constant τ', a.tau === null ? '— (fit too poor to report)' : quantity(a.tau, 's')],
       ['Fit of V = A·e^(−(t−t0)/τ) + B', fitText(a)],
       ['Trace on the charts', `${a.trace.length.toLocaleString('en-GB')} points (minimum and maximum kept when decimated)`],
@@ -99,15 +112,32 @@ function captureBlock(model: DossierPdfModel, e: Analysed, index: number, checks
     {
       columns: [
         swatch(traceColour(index)),
-        { text: [{ text: `Capture ${index + 1}: ${e.originalName}`, bold: true, fontSize: 9.5 }, { text: '   its line on the decay chart (section 4) has this colour', color: COLOURS.muted, fontSize: 7.5 }], width: '*' },
+        {
+          text: [
+            { text: `Capture ${index + 1}: ${e.originalName}`, bold: true, fontSize: 9.5 },
+            { text: '   its line on the decay chart (section 4) has this colour', color: COLOURS.muted, fontSize: 7.5 },
+          ],
+          width: '*',
+        },
       ],
       margin: [0, 8, 0, 1],
     },
-    { text: [{ text: 'SHA-256  ', color: COLOURS.muted }, { text: e.sha256, font: MONO }], fontSize: 7.5, margin: [0, 0, 0, 3] },
+    {
+      text: [
+        { text: 'SHA-256  ', color: COLOURS.muted },
+        { text: e.sha256, font: MONO },
+      ],
+      fontSize: 7.5,
+      margin: [0, 0, 0, 3],
+    },
     analysisFacts(e.analysis, req),
   ];
   if (e.analysis.safeVoltage !== req.safeVoltage) {
-    out.push({ text: `Analysed against ${quantity(e.analysis.safeVoltage, 'V')}, but the requirement says ${quantity(req.safeVoltage, 'V')}: re-analyse this capture.`, color: COLOURS.fail, bold: true });
+    out.push({
+      text: `Analysed against ${quantity(e.analysis.safeVoltage, 'V')}, but the requirement says ${quantity(req.safeVoltage, 'V')}: re-analyse this capture.`,
+      color: COLOURS.fail,
+      bold: true,
+    });
   }
   out.push(
     { text: 'Probe, referral and analysis notes', bold: true, margin: [0, 0, 0, 2] },

@@ -1,7 +1,20 @@
 // Section 1: the requirement in the user's words and the design inputs, labelled and formatted from
 // the shared field descriptors (the same ones the form and the diff use).
 import type { Content, TableCell } from 'pdfmake/interfaces';
-import { ACTIVE_FIELDS, ACTIVE_MODE_WORDS, DESIGN_GROUPS, formatField, getPath, REQUIREMENT_FIELDS, SNUBBER_KIND_FIELDS, SNUBBER_KIND_WORDS, SNUBBER_OPERATING_FIELDS, SNUBBER_PART_FIELDS, type FieldSpec, type SnubberFieldSpec } from '../../../shared/design-fields';
+import {
+  ACTIVE_FIELDS,
+  ACTIVE_MODE_WORDS,
+  DESIGN_GROUPS,
+  formatField,
+  getPath,
+  REQUIREMENT_FIELDS,
+  SNUBBER_KIND_FIELDS,
+  SNUBBER_KIND_WORDS,
+  SNUBBER_OPERATING_FIELDS,
+  SNUBBER_PART_FIELDS,
+  type FieldSpec,
+  type SnubberFieldSpec,
+} from '../../../shared/design-fields';
 import type { DesignDraft } from '../../../shared/schema/discharge';
 import type { SnubberDraft } from '../../../shared/schema/snubber';
 import { COLOURS, facts, heading, HEADED, keepWithHeadings, subheading } from '../layout';
@@ -22,7 +35,10 @@ const valueOf = (spec: Pick<FieldSpec, 'kind' | 'optional'>, value: unknown): st
 const rowsOf = (fields: readonly FieldSpec[], root: unknown): Row[] => fields.map((f) => [f.label, valueOf(f, getPath(root, f.path))]);
 
 function designGroups(design: DesignDraft): Array<{ title: string; rows: Row[] }> {
-  const groups = DESIGN_GROUPS.filter((g) => !g.optional || getPath(design, g.key) != null).map((g) => ({ title: g.title, rows: rowsOf(g.fields, design) }));
+  const groups = DESIGN_GROUPS.filter((g) => !g.optional || getPath(design, g.key) != null).map((g) => ({
+    title: g.title,
+    rows: rowsOf(g.fields, design),
+  }));
   const active = design.active;
   groups.push({
     title: 'Active discharge',

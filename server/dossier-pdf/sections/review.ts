@@ -27,7 +27,12 @@ export function reviewsSection(model: DossierPdfModel): Content[] {
             ` (${signer.role}) <${r.reviewer.email}> — ${signer.meaning}`,
           ],
         },
-        { text: [{ text: 'Content hash at decision  ', color: COLOURS.muted, fontSize: 7.5 }, { text: r.contentHash, font: MONO, fontSize: 7.5 }] },
+        {
+          text: [
+            { text: 'Content hash at decision  ', color: COLOURS.muted, fontSize: 7.5 },
+            { text: r.contentHash, font: MONO, fontSize: 7.5 },
+          ],
+        },
         { text: r.comment || '(no comment)', margin: [12, 2, 0, 0], italics: !r.comment },
       ],
       margin: [0, 0, 0, 8],

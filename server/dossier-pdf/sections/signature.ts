@@ -44,10 +44,23 @@ export function signatureSection(model: DossierPdfModel, signingTime: Date): Con
       [
         ['Applied', `At approval, ${timestamp(signingTime)} (the claimed time; see the timestamp)`],
         ['Signing certificate', signer.subject],
-        ...(signer.fingerprintSha256 ? ([['Certificate SHA-256 fingerprint', mono(fingerprintLines(signer.fingerprintSha256), 7.5)]] as Array<[string, Content]>) : []),
-        ['Certificate kind', signer.kind === 'development' ? { text: DEVELOPMENT_MARK, bold: true, color: COLOURS.neutral } : 'Organisation certificate'],
-        ['Format', 'PAdES baseline (ETSI EN 319 142-1): CAdES detached signature, SHA-256, with the signer’s chain and revocation data in the document security store'],
-        ['Trusted time', signer.timestampAuthority ? { text: [TRUSTED_TIME_WORDS.with, ` Authority: ${signer.timestampAuthority}`] } : { text: TRUSTED_TIME_WORDS.without, color: COLOURS.neutral, bold: true }],
+        ...(signer.fingerprintSha256
+          ? ([['Certificate SHA-256 fingerprint', mono(fingerprintLines(signer.fingerprintSha256), 7.5)]] as Array<[string, Content]>)
+          : []),
+        [
+          'Certificate kind',
+          signer.kind === 'development' ? { text: DEVELOPMENT_MARK, bold: true, color: COLOURS.neutral } : 'Organisation certificate',
+        ],
+        [
+          'Format',
+          'PAdES baseline (ETSI EN 319 142-1): CAdES detached signature, SHA-256, with the signer’s chain and revocation data in the document security store',
+        ],
+        [
+          'Trusted time',
+          signer.timestampAuthority
+            ? { text: [TRUSTED_TIME_WORDS.with, ` Authority: ${signer.timestampAuthority}`] }
+            : { text: TRUSTED_TIME_WORDS.without, color: COLOURS.neutral, bold: true },
+        ],
       ],
       170,
     ),

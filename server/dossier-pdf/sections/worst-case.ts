@@ -21,7 +21,9 @@ export function worstCaseSection(model: DossierPdfModel): Content[] {
     content.push({ text: 'Not computed: the design inputs are incomplete.', italics: true });
   } else {
     content.push(
-      caption('Worst case is the slowest discharge: highest resistance and capacitance within tolerance, temperature and drift, from the maximum bus voltage.'),
+      caption(
+        'Worst case is the slowest discharge: highest resistance and capacitance within tolerance, temperature and drift, from the maximum bus voltage.',
+      ),
       grid(
         ['Quantity', 'Nominal', 'Worst case'],
         NETWORK_ROWS.map((r): TableCell[] => [r.label, quantity(nominal[r.key], r.unit), { text: quantity(worstCase[r.key], r.unit), bold: true }]),
@@ -38,7 +40,10 @@ export function worstCaseSection(model: DossierPdfModel): Content[] {
       caption(`Change of ${sensitivity.of} in percent for a +1 % change of each input; the largest first.`),
       grid(
         ['Input', '% per +1 %'],
-        entries.map((e): TableCell[] => [e.label, { text: `${e.percentPerPercent >= 0 ? '+' : '−'}${plain(Math.abs(e.percentPerPercent), 3)} %`, alignment: 'right' }]),
+        entries.map((e): TableCell[] => [
+          e.label,
+          { text: `${e.percentPerPercent >= 0 ? '+' : '−'}${plain(Math.abs(e.percentPerPercent), 3)} %`, alignment: 'right' },
+        ]),
         ['*', 90],
       ),
     );

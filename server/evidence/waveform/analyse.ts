@@ -57,10 +57,7 @@ function pickChannel(layout: CaptureLayout, ref: ChannelRef, what: string): numb
     return layout.channelNames[i].toLowerCase() === wanted || (info.header?.base ?? '').toLowerCase() === wanted;
   });
   if (index >= 0) return index;
-  throw new WaveformError(
-    'CHANNEL_NOT_FOUND',
-    `The ${what} "${ref}" is not in the file; its channels are: ${layout.channelNames.join(', ')}.`,
-  );
+  throw new WaveformError('CHANNEL_NOT_FOUND', `The ${what} "${ref}" is not in the file; its channels are: ${layout.channelNames.join(', ')}.`);
 }
 
 /** The voltage channel (default the first) and the marker channel, when one is named. */
@@ -122,9 +119,7 @@ async function summarise(source: ByteSource, layout: CaptureLayout, channels: Ch
   }
   if (pass.truncatedLastLine) notes.push('The last line of the file is incomplete (the export was cut off); it was left out.');
   if (pass.repeatedTimes > 0) {
-    notes.push(
-      `${pass.repeatedTimes} sample(s) repeat the previous time stamp: the export's time resolution is coarser than its sample interval.`,
-    );
+    notes.push(`${pass.repeatedTimes} sample(s) repeat the previous time stamp: the export's time resolution is coarser than its sample interval.`);
   }
   return { ctx, samples: pass.samples, skipped: pass.skipped };
 }

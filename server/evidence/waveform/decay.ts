@@ -79,10 +79,7 @@ export async function fitDecay(ctx: Context, t0: number, v0: number): Promise<De
   // The window opens where the voltage passes 90 % for the last time before 10 %, so that a switching
   // transient dipping below 90 % at the disconnect stays outside it.
   const last = lastAbove(s, s.vm, i0, high, firstAtOrAfter(s, to));
-  const from =
-    last >= i0 && last + 1 < s.count
-      ? interpolateTime(s.tm[last], s.vm[last], s.tm[last + 1], s.vm[last + 1], high)
-      : firstFall;
+  const from = last >= i0 && last + 1 < s.count ? interpolateTime(s.tm[last], s.vm[last], s.tm[last + 1], s.vm[last + 1], high) : firstFall;
   const window = { from, to };
   const first = firstAtOrAfter(s, from);
   const end = firstAtOrAfter(s, to);
@@ -94,9 +91,7 @@ export async function fitDecay(ctx: Context, t0: number, v0: number): Promise<De
   }
   const problems = fitProblems(fit, v0, v0 - base);
   if (problems.length) {
-    ctx.notes.push(
-      `Poor exponential fit: ${problems.join('; ')}. No time constant is reported; the crossing time is measured directly.`,
-    );
+    ctx.notes.push(`Poor exponential fit: ${problems.join('; ')}. No time constant is reported; the crossing time is measured directly.`);
   }
   return { fit, good: problems.length === 0, window };
 }

@@ -174,8 +174,7 @@ export function fitExponential(s: Series, tRef: number, offsetGuess: number): Ex
         // A negligible gain or a negligible step counts as convergence only with little damping:
         // heavily damped steps are small whether or not the minimum is near.
         const scale = Math.abs(a) + Math.abs(b);
-        const still =
-          Math.abs(step[1]) <= 1e-9 * k && Math.abs(step[0]) <= 1e-9 * scale && Math.abs(step[2]) <= 1e-9 * scale;
+        const still = Math.abs(step[1]) <= 1e-9 * k && Math.abs(step[0]) <= 1e-9 * scale && Math.abs(step[2]) <= 1e-9 * scale;
         if ((relative < 1e-12 || still) && lambda < 1) converged = true;
         break;
       }

@@ -51,8 +51,7 @@ export interface CaptureLayout {
 const RUN_LENGTH = 32;
 const SEPARATORS = [9, 59, 44] as const; // tab, ';', ','
 
-const TIME_NAME =
-  /^(?:t|x|time|times|timestamp|time ?stamp|sec|secs|seconds?|elapsed(?: time)?|relative time|zeit|temps|tiempo|tempo)$/i;
+const TIME_NAME = /^(?:t|x|time|times|timestamp|time ?stamp|sec|secs|seconds?|elapsed(?: time)?|relative time|zeit|temps|tiempo|tempo)$/i;
 const INDEX_NAME = /^(?:index|idx|no\.?|nr\.?|n|#|sample|samples|sample no\.?|point|points|pt|row)$/i;
 
 interface Candidate {
@@ -235,16 +234,19 @@ const isIndex = (c: ColumnInfo) => c.header !== null && INDEX_NAME.test(c.header
  * Time: a column named or unit-tagged as time; else the metadata's start + increment; else a first
  * column that only ever increases.
  */
-function findTimeBase(columns: ColumnInfo[], firstColumn: number[], meta: Metadata, notes: string[]): { timeColumn: number | null; timeScale: number } {
+function findTimeBase(
+  columns: ColumnInfo[],
+  firstColumn: number[],
+  meta: Metadata,
+  notes: string[],
+): { timeColumn: number | null; timeScale: number } {
   const timeish = columns.find((c) => c.header && (c.header.unit?.kind === 'time' || TIME_NAME.test(c.header.base)));
   if (timeish && timeish.numeric) {
     return { timeColumn: timeish.index, timeScale: timeish.header?.unit?.kind === 'time' ? timeish.header.unit.scale : (meta.timeUnit?.scale ?? 1) };
   }
   if (meta.increment !== null) {
     if (timeish) notes.push(`Column "${timeish.label}" holds no numbers; the sample interval from the metadata is used instead.`);
-    notes.push(
-      `No time column: time is taken from the metadata, start ${plain(meta.start ?? 0)} s and sample interval ${plain(meta.increment)} s.`,
-    );
+    notes.push(`No time column: time is taken from the metadata, start ${plain(meta.start ?? 0)} s and sample interval ${plain(meta.increment)} s.`);
     return { timeColumn: null, timeScale: 1 };
   }
   if (timeish) {

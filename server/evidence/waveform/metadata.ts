@@ -27,9 +27,7 @@ const VOLT_UNIT_KEY = /^(?:vertical|voltage|y|volt)\s*units?$/i;
 export const COMMENT_MARK = /^\s*[#%]+\s*/;
 
 type Entry =
-  | { kind: 'probe'; value: string }
-  | { kind: 'time-unit' | 'volt-unit'; unit: Unit }
-  | { kind: 'increment' | 'rate' | 'start'; seconds: number };
+  { kind: 'probe'; value: string } | { kind: 'time-unit' | 'volt-unit'; unit: Unit } | { kind: 'increment' | 'rate' | 'start'; seconds: number };
 
 /** Key and value of a metadata line, split at the data's separator or, in a one-cell line, at the first of : = , ; tab. */
 function keyValue(text: string, sep: string): [string, string] | null {

@@ -1,10 +1,6 @@
 // Public entry points of the capture reader. Files are streamed in bounded memory; the text variants are
 // for small inputs (tests, pasted samples).
-import {
-  analysisOptionsSchema,
-  type AnalysisOptions,
-  type WaveformAnalysis,
-} from '../../../shared/schema/waveform';
+import { analysisOptionsSchema, type AnalysisOptions, type WaveformAnalysis } from '../../../shared/schema/waveform';
 import { analyseSource } from './analyse';
 import { scanSource } from './encoding';
 import { readLayout } from './layout';

@@ -64,7 +64,10 @@ const SLASHED = /^(.+?)\s*\/\s*([^/\s]+)$/;
 const TRAILING = /^(.+?)[\s_]+(\S+)$/;
 
 export function readHeaderCell(raw: string): HeaderCell {
-  const label = raw.trim().replace(/^"(.*)"$/, '$1').trim();
+  const label = raw
+    .trim()
+    .replace(/^"(.*)"$/, '$1')
+    .trim();
   const whole = parseUnit(label);
   if (whole) return { label, base: '', unit: whole, unknownUnit: null };
   const bracketed = BRACKETED.exec(label);
@@ -82,7 +85,10 @@ export function readHeaderCell(raw: string): HeaderCell {
 
 /** Reads "1E-05", "10 us", "100kS/s", "1,5E-3 s", "2E-3 [s]" (decimal comma when `decimalComma`). */
 export function readQuantity(raw: string, decimalComma: boolean): { value: number; unit: Unit | null } | null {
-  const text = raw.trim().replace(/^"(.*)"$/, '$1').trim();
+  const text = raw
+    .trim()
+    .replace(/^"(.*)"$/, '$1')
+    .trim();
   const match = /^([+-]?(?:\d+[.,]?\d*|[.,]\d+)(?:[eE][+-]?\d+)?)\s*(.*)$/.exec(text);
   if (!match) return null;
   const number = match[1];
