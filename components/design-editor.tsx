@@ -78,7 +78,7 @@ function numberAt(design: DesignDraft, path: string): number | null {
 const idOf = (prefix: string, path: string) => `${prefix}-${path.replace(/\./g, '-')}`;
 
 /**
- * Design inputs of a discharge network (DESIGN.md §4.2), one compact card per group. Each field keeps
+ * Design inputs of a discharge network (docs/DOMAIN.md §7.2), one compact card per group. Each field keeps
  * its own text; the draft receives SI numbers, null for empty or unreadable text. `design.snubbers` is
  * passed through untouched.
  */

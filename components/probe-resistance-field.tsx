@@ -6,7 +6,7 @@ import { QuantityField } from './ui/quantity-field';
 
 const OHMS: FieldKind = { type: 'quantity', unit: 'Ω' };
 
-// Input resistance of common measuring inputs (REFERENCE.md §5b, from memory): offered, never assumed.
+// Input resistance of common measuring inputs (docs/DOMAIN.md §5.3, from memory): offered, never assumed.
 const PRESETS = [
   { id: '10M', value: 10e6, label: '10 MΩ — ×10 probe, typical — verify' },
   { id: '1M', value: 1e6, label: '1 MΩ — ×1 input, typical — verify' },

@@ -47,7 +47,7 @@ function matchingPreset(value: RequirementDraft): RequirementPreset | undefined 
 }
 
 /**
- * The limit a design must meet (DESIGN.md §4.1), entered by the user; presets are starting points and
+ * The limit a design must meet (docs/DOMAIN.md §7.1), entered by the user; presets are starting points and
  * say so.
  */
 export function RequirementEditor({ value, onChange, readOnly, testIDPrefix = 'requirement', serverErrors = [], presetsOpen = false }: Props) {

@@ -75,7 +75,7 @@ function downloadText(fileName: string, text: string) {
 }
 
 /**
- * The discharge result (DESIGN.md §4.3): verdict in words and a mark, a card per check, the decay
+ * The discharge result (docs/DOMAIN.md §7.3): verdict in words and a mark, a card per check, the decay
  * chart, nominal against worst case, sensitivity, the bleeder suggestion, the netlist and the caution.
  */
 export function ResultsPanel({ result, requirement, design, measured, testIDPrefix = 'results' }: Props) {

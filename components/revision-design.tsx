@@ -1,4 +1,4 @@
-import { useEffect, useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { StyleSheet, Text, useWindowDimensions, View } from 'react-native';
 import { colors, space, type, WIDE_BREAKPOINT } from '../constants/theme';
 import { formatWhen } from '../shared/dates';
@@ -51,13 +51,15 @@ export function RevisionDesign({ revision, me }: { revision: Revision; me: Me })
   const saveProblem = state.kind === 'invalid' || state.kind === 'failed' || state.kind === 'conflict';
   // A snubber handed over from the sizing screen joins the list once, and is saved like a typed one.
   const [handed] = useState(() => peekHandedSnubber(revision.id));
+  // Once, when the tab opens: the ref keeps later renders (and a remount in development) from adding it again.
+  const joined = useRef(false);
   useEffect(() => {
-    if (!handed) return;
+    if (!handed || joined.current) return;
+    joined.current = true;
     dropHandedSnubber(revision.id);
     const list = design.snubbers ?? [];
     if (editable) edit({ design: { ...design, snubbers: [...list, { ...handed, name: `SN${list.length + 1}` }] } });
-    // Once, when the tab opens.
-  }, []);
+  }, [handed, revision.id, design, editable, edit]);
 
   return (
     // On a phone a frozen revision leads with its results: that is what a reader opens it for.

@@ -5,7 +5,7 @@ import { ConfirmDialog } from './ui/confirm-dialog';
 /** A change to someone's account waiting for the admin's confirmation. */
 export type TeamChange = { user: TeamMember; role: Role } | { user: TeamMember; disabled: true };
 
-/** What each role may do (DESIGN.md §2), as the dialog tells the admin before a role changes. */
+/** What each role may do (docs/ARCHITECTURE.md §3), as the dialog tells the admin before a role changes. */
 const MAY: Record<Role, string> = {
   admin: 'manage people and roles, and everything an engineer may',
   engineer: 'create products, dossiers and draft revisions, attach evidence and submit for review',

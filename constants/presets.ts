@@ -1,5 +1,5 @@
 // Starting points for a requirement and the Quick check example. Preset limits are typical values read
-// from the team's reference notes (REFERENCE.md §2); they are offered, never asserted: the user must
+// from the team's domain notes (docs/DOMAIN.md §2); they are offered, never asserted: the user must
 // check them against the edition of the standard they work to.
 import type { DesignDraft, RequirementDraft } from '../shared/schema/discharge';
 

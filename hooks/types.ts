@@ -1,4 +1,4 @@
-// Shapes of the API's answers as the app reads them (the server's JSON contract, DESIGN.md §5).
+// Shapes of the API's answers as the app reads them (the server's JSON contract, docs/ARCHITECTURE.md §6.4).
 import type { EvidenceView, ReturnNoteView, RevisionSummary, RevisionView } from '../shared/schema/api';
 
 export type { CheckChange, DossierListItem, Overview, OverviewList, ReviewQueueItem, RevisionDiff, RevisionSummary } from '../shared/schema/api';

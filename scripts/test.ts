@@ -1,5 +1,6 @@
-// `npm test`: make sure the system tools the tests need are present (installing them when running as
-// root, as CI does), build the web export the browser tests drive, then run every test.
+// `npm test`: lint (ESLint with the import boundaries, then Prettier), make sure the system tools the tests
+// need are present (installing them when running as root, as CI does), build the web export the browser
+// tests drive, then run every test.
 import { execSync, spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { buildWeb } from './build-web';
@@ -17,6 +18,13 @@ const TOOLS: Array<[string, string]> = [
   ['/usr/bin/certutil', 'libnss3-tools'],
 ];
 const APT_LINE = 'apt-get update && apt-get install -y chromium poppler-utils qpdf ngspice openssl libnss3-tools';
+
+console.log('Linting (npm run lint)…');
+const lint = spawnSync('npm', ['run', 'lint'], { stdio: 'inherit' });
+if (lint.status !== 0) {
+  console.error('npm run lint failed: fix the lint and formatting problems above before the tests run.');
+  process.exit(lint.status ?? 1);
+}
 
 const missing = () => TOOLS.filter(([path]) => !existsSync(path)).map(([, pkg]) => pkg);
 

@@ -2,7 +2,7 @@
 import type { Check, DischargeResult } from '../../shared/schema/discharge';
 import type { RevisionStatus } from './model';
 
-/** DESIGN.md §7, printed in full in every dossier. */
+/** docs/DOMAIN.md §6, printed in full in every dossier. */
 export const CAUTIONS = [
   'Stored energy in DC-link capacitors can kill.',
   'Calculations here support, and never replace, measurement and the judgement of a qualified person.',

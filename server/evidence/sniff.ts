@@ -86,9 +86,8 @@ export async function sniffMediaType(path: string, kind: EvidenceKind, originalN
  */
 export function sanitiseFileName(name: string): string {
   const base = name.normalize('NFC').split(/[\\/]/).pop() ?? '';
-  // eslint-disable-next-line no-control-regex -- control characters are exactly what is removed.
   const clean = base
-    .replace(/[\u0000-\u001f\u007f\u202a-\u202e\u2066-\u2069]/g, '')
+    .replace(/[\u0000-\u001f\u007f\u202a-\u202e\u2066-\u2069]/g, '') // eslint-disable-line no-control-regex -- control characters are exactly what is removed.
     .replace(/^\.+/, '')
     .trim();
   // Cut by code points so a character outside the BMP is never split in half.

@@ -75,13 +75,15 @@ export async function organisationSetup(options: OrganisationOptions): Promise<S
   try {
     bytes = await readFile(p12Path);
   } catch (error) {
-    throw new Error(`Cannot read the signing PKCS#12 file at ${p12Path}: ${(error as Error).message}`);
+    throw new Error(`Cannot read the signing PKCS#12 file at ${p12Path}: ${(error as Error).message}`, { cause: error });
   }
   let p12: forge.pkcs12.Pkcs12Pfx;
   try {
     p12 = forge.pkcs12.pkcs12FromAsn1(forge.asn1.fromDer(bytes.toString('binary')), false, options.p12Password);
   } catch (error) {
-    throw new Error(`Cannot open the signing PKCS#12 file ${p12Path} (wrong password or not PKCS#12): ${(error as Error).message}`);
+    throw new Error(`Cannot open the signing PKCS#12 file ${p12Path} (wrong password or not PKCS#12): ${(error as Error).message}`, {
+      cause: error,
+    });
   }
   const keyBag = p12.getBags({ bagType: forge.pki.oids.pkcs8ShroudedKeyBag })[forge.pki.oids.pkcs8ShroudedKeyBag]?.[0];
   const key = keyBag?.key as forge.pki.rsa.PrivateKey | undefined;

@@ -37,7 +37,7 @@ async function fetchCrls(cert: Uint8Array): Promise<Uint8Array[]> {
       if (!res.ok) throw new Error(`HTTP ${res.status}`);
       bytes = new Uint8Array(await res.arrayBuffer());
     } catch (error) {
-      throw new Error(`Revocation data for the signature could not be fetched from ${url}: ${(error as Error).message}`);
+      throw new Error(`Revocation data for the signature could not be fetched from ${url}: ${(error as Error).message}`, { cause: error });
     }
     const next = pkijs.CertificateRevocationList.fromBER(toArrayBuffer(bytes)).nextUpdate?.value;
     cache.set(url, { crl: bytes, until: next ? next.getTime() : Date.now() + 3_600_000 });

@@ -38,7 +38,7 @@ export async function requestTimestamp(url: string, data: Uint8Array): Promise<T
       signal: AbortSignal.timeout(TIMEOUT_MS),
     });
   } catch (error) {
-    throw new Error(`The time-stamping authority at ${url} did not answer: ${(error as Error).message}`);
+    throw new Error(`The time-stamping authority at ${url} did not answer: ${(error as Error).message}`, { cause: error });
   }
   if (!response.ok) throw new Error(`The time-stamping authority at ${url} answered HTTP ${response.status}.`);
   const reply = pkijs.TimeStampResp.fromBER(await response.arrayBuffer());

@@ -1,4 +1,4 @@
-// Balancing resistors across N series capacitors (REFERENCE.md §3.7).
+// Balancing resistors across N series capacitors (docs/DOMAIN.md §3.7).
 import type { Balancing } from '../schema/discharge';
 
 /**

@@ -1,5 +1,5 @@
-// The discharge check (DESIGN.md §4.3): from a requirement and a (possibly unfinished) design to the
-// wire result of §4.4 — checks, corners, curve, sensitivity and a bleeder suggestion.
+// The discharge check (docs/DOMAIN.md §7.3): from a requirement and a (possibly unfinished) design to the
+// wire result of docs/ARCHITECTURE.md §6.3 — checks, corners, curve, sensitivity and a bleeder suggestion.
 import {
   type Check,
   type Design,

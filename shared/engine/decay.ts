@@ -1,4 +1,4 @@
-// Discharge laws of the three paths (REFERENCE.md §3.1, §3.2, §3.8) and the alternative safe criteria.
+// Discharge laws of the three paths (docs/DOMAIN.md §3.1, §3.2, §3.8) and the alternative safe criteria.
 import type { RequirementDraft } from '../schema/discharge';
 
 export type DischargePath =
@@ -16,7 +16,7 @@ export function rcTime(v0: number, threshold: number, tau: number): number {
   return v0 <= threshold ? 0 : tau * Math.log(v0 / threshold);
 }
 
-/** Largest total resistance that reaches `threshold` within `time`: R = t / (C·ln(V0/V)) (REFERENCE.md §3.1). */
+/** Largest total resistance that reaches `threshold` within `time`: R = t / (C·ln(V0/V)) (docs/DOMAIN.md §3.1). */
 export function maxDischargeResistance(time: number, capacitance: number, v0: number, threshold: number): number {
   return v0 <= threshold ? Infinity : time / (capacitance * Math.log(v0 / threshold));
 }
@@ -56,7 +56,7 @@ export function pathTime(path: DischargePath, v0: number, threshold: number): nu
     case 'passive':
       return rcTime(v0, threshold, path.resistance * path.capacitance);
     case 'constant-current':
-      // t = C·(V0 − V)/I + delay (DESIGN.md §4.3).
+      // t = C·(V0 − V)/I + delay (docs/DOMAIN.md §3.8).
       return path.delay + (path.capacitance * (v0 - threshold)) / path.current;
     case 'switched-resistor':
       return path.delay + rcTime(v0, threshold, path.resistance * path.capacitance);
@@ -75,7 +75,7 @@ export interface SafeThreshold {
 
 /**
  * The voltage below which the part counts as safe. Charge and energy limits are alternatives to the
- * voltage (REFERENCE.md §3.2): Q = C·V ≤ Qmax gives V = Qmax/C, E = ½CV² ≤ Emax gives V = √(2·Emax/C).
+ * voltage (docs/DOMAIN.md §3.2): Q = C·V ≤ Qmax gives V = Qmax/C, E = ½CV² ≤ Emax gives V = √(2·Emax/C).
  * Decay is monotonic, so the earliest instant any criterion is met is the highest of these voltages.
  */
 export function safeThreshold(

@@ -1,6 +1,6 @@
-// The `measured-discharge` check (DESIGN.md §4.3): what one oscilloscope capture proves against the
+// The `measured-discharge` check (docs/DOMAIN.md §7.3): what one oscilloscope capture proves against the
 // requirement, and whether the measured time constant agrees with the calculation. The capture is
-// referred to the requirement's conditions (REFERENCE.md §5b): to the circuit without the measuring
+// referred to the requirement's conditions (docs/DOMAIN.md §5.3): to the circuit without the measuring
 // instrument, and to the maximum bus voltage when it started lower.
 import type { Check } from '../schema/discharge';
 import type { WaveformAnalysis } from '../schema/waveform';

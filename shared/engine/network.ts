@@ -1,4 +1,4 @@
-// Network totals and component corners (REFERENCE.md §3.3–§3.5, DESIGN.md §4.3). SI units; °C.
+// Network totals and component corners (docs/DOMAIN.md §3.3–§3.5). SI units; °C.
 import type { Ambient, Bleeder, Capacitors, Design } from '../schema/discharge';
 
 /** Reference temperature of resistor TCR figures, °C. */
@@ -34,7 +34,7 @@ export function capacitorNetwork(unit: number, series: number, parallel: number)
   return (unit * parallel) / series;
 }
 
-/** Rectified mains peak: √2 · V_rms · (1 + tolerance) (REFERENCE.md §3.4). */
+/** Rectified mains peak: √2 · V_rms · (1 + tolerance) (docs/DOMAIN.md §3.4). */
 export function busFromMains(rms: number, tolerance: number): number {
   return Math.SQRT2 * rms * (1 + tolerance);
 }
@@ -63,7 +63,7 @@ export interface ResistorCorner {
 }
 
 /**
- * Highest resistance over tolerance, ambient range and life drift (DESIGN.md §4.3):
+ * Highest resistance over tolerance, ambient range and life drift (docs/DOMAIN.md §3.3):
  * (1+tol) · max(TCR factor at T_max, at T_min) · (1+drift).
  */
 export function resistorMaxCorner(bleeder: Pick<Bleeder, 'tolerance' | 'tcrPpmPerK' | 'drift'>, ambient: Ambient): ResistorCorner {
@@ -81,7 +81,7 @@ export function resistorMaxCorner(bleeder: Pick<Bleeder, 'tolerance' | 'tcrPpmPe
 }
 
 /**
- * Lowest resistance for the dissipation check (DESIGN.md §4.3): (1−tol) · min(TCR factor at T_max, at T_min);
+ * Lowest resistance for the dissipation check (docs/DOMAIN.md §3.3): (1−tol) · min(TCR factor at T_max, at T_min);
  * drift is ignored here because it is specified as an increase.
  */
 export function resistorMinCorner(bleeder: Pick<Bleeder, 'tolerance' | 'tcrPpmPerK'>, ambient: Ambient): ResistorCorner {

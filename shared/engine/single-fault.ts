@@ -1,4 +1,4 @@
-// Single-fault checks (DESIGN.md §4.3, REFERENCE.md §5b): when the requirement asks for it, the
+// Single-fault checks (docs/DOMAIN.md §7.3, §5.3): when the requirement asks for it, the
 // discharge must also hold with one bleeder resistor open (its whole string lost) and the resistors
 // must survive one resistor of a series string shorted.
 import type { Check, Design, Requirement } from '../schema/discharge';

@@ -1,5 +1,5 @@
 // Shapes the API answers with for a revision and its evidence, shared by the server that builds them
-// and the app that reads them (the JSON names are part of the contract, DESIGN.md §5).
+// and the app that reads them (the JSON names are part of the contract, docs/ARCHITECTURE.md §6.4).
 import type { DesignDraft, DischargeResult, Requirement } from './discharge';
 import type { Page } from './lists';
 import type { WaveformAnalysis } from './waveform';
@@ -72,7 +72,7 @@ export interface RevisionView<E extends EvidenceView = EvidenceView> {
   signedPdf: { sha256: string; size: number; createdAt: string; signerKind: string } | null;
 }
 
-// The diff of two revisions (GET /api/revisions/:id/diff), DESIGN.md §5.
+// The diff of two revisions (GET /api/revisions/:id/diff), docs/ARCHITECTURE.md §6.4.
 
 export interface InputChange {
   path: string;

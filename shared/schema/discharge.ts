@@ -1,4 +1,4 @@
-// Wire format of the discharge check (DESIGN.md §4.1, §4.4). The JSON names are a contract shared by the
+// Wire format of the discharge check (docs/DOMAIN.md §7.1, docs/ARCHITECTURE.md §6.3). The JSON names are a contract shared by the
 // app, the API and stored revisions. All numbers are SI base units; temperatures in °C; tolerances are
 // fractions (0.01 = 1 %).
 import { z } from 'zod';
@@ -102,7 +102,7 @@ const busOrder = ordered('nominalVoltage', 'maxVoltage', 'Maximum bus voltage mu
 const ambientOrder = ordered('min', 'max', 'Maximum ambient temperature must be at least the minimum');
 
 // ---------------------------------------------------------------------------------------------------
-// Requirement (§4.1)
+// Requirement (docs/DOMAIN.md §7.1)
 
 export const requirementSchema = z.object({
   safeVoltage: voltage('Safe voltage'),
@@ -137,7 +137,7 @@ export const requirementDraftSchema = z.object({
 });
 
 // ---------------------------------------------------------------------------------------------------
-// Design (§4.2, §4.4)
+// Design (docs/DOMAIN.md §7.2, docs/ARCHITECTURE.md §6.3)
 
 export const busSchema = z.object(busLeaves).superRefine(busOrder);
 export const capacitorsSchema = z.object({
@@ -193,7 +193,7 @@ export const designDraftSchema = z.object({
 });
 
 // ---------------------------------------------------------------------------------------------------
-// Input and result (§4.3, §4.4)
+// Input and result (docs/DOMAIN.md §7.3, docs/ARCHITECTURE.md §6.3)
 
 export const dischargeInputSchema = z.object({
   requirement: requirementSchema,

@@ -1,4 +1,4 @@
-// Paged lists: the query every list route takes and the page it answers (DESIGN.md §5).
+// Paged lists: the query every list route takes and the page it answers (docs/ARCHITECTURE.md §6.1).
 import { z } from 'zod';
 import { revisionStatuses } from './workflow';
 

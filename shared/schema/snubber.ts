@@ -83,7 +83,7 @@ export const rcdClampSnubberSchema = z
     }
   });
 
-/** One snubber in a design (DESIGN.md §4.4 `design.snubbers[]`). */
+/** One snubber in a design (docs/ARCHITECTURE.md §6.3 `design.snubbers[]`). */
 export const snubberSchema = z.discriminatedUnion('kind', [rcSnubberSchema, rcdTurnoffSnubberSchema, rcdClampSnubberSchema]);
 
 export const snubberListSchema = z.array(snubberSchema).max(50);

@@ -1,5 +1,5 @@
-// Wire format of an oscilloscope / data-logger capture analysis (DESIGN.md §3 evidence `analysis`,
-// REFERENCE.md §5). Times are seconds on the capture's own time axis (after unit scaling), voltages volts.
+// Wire format of an oscilloscope / data-logger capture analysis (docs/ARCHITECTURE.md §4 evidence `analysis`,
+// docs/DOMAIN.md §5.2). Times are seconds on the capture's own time axis (after unit scaling), voltages volts.
 import { z } from 'zod';
 import { formatQuantity, parseQuantity } from '../units';
 

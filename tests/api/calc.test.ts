@@ -117,7 +117,7 @@ describe('POST /api/calc/discharge', () => {
 });
 
 describe('POST /api/calc/snubber', () => {
-  it('sizes from the ringing measurement (REFERENCE.md E12, a computed example)', async () => {
+  it('sizes from the ringing measurement (docs/DOMAIN.md §4 E12, a computed example)', async () => {
     const res = await engineer.post('/api/calc/snubber').send({ f0: 20e6, cAdd: 300e-12, f1: 10e6 });
     expect(res.status).toBe(200);
     expect(res.body.cPar).toBeCloseTo(100e-12, 15);

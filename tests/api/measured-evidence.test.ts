@@ -67,10 +67,10 @@ describe('a capture is referred to the maximum bus and to the unloaded circuit',
     const tau = checks.find((c) => c.id === `measured-tau:${key}`)!;
     expect(time).toMatchObject({ evidenceId: res.body.id, evidenceSha256: res.body.sha256 });
     expect(tau).toMatchObject({ evidenceId: res.body.id, evidenceSha256: res.body.sha256 });
-    // Parallel resistances (REFERENCE §5b, common practice): 1/τ = 1/1.5 s − 1/(10 MΩ × 6.27 µF) → 1.5368 s.
+    // Parallel resistances (docs/DOMAIN.md §5.3, common practice): 1/τ = 1/1.5 s − 1/(10 MΩ × 6.27 µF) → 1.5368 s.
     const unloaded = 1 / (1 / 1.5 - 1 / (10e6 * C_MIN));
     expect(tau.value).toBeCloseTo(unloaded, 2);
-    // RC decay law (REFERENCE §5b): t = t(500→60 V)·τ_u/τ + τ_u·ln(622/500) = τ_u·ln(622/60) = 3.594 s.
+    // RC decay law (docs/DOMAIN.md §5.3): t = t(500→60 V)·τ_u/τ + τ_u·ln(622/500) = τ_u·ln(622/60) = 3.594 s.
     expect(time.value).toBeCloseTo(unloaded * Math.log(622 / 60), 1);
     expect(time.referral).toMatchObject({ start: 'referred', probeResistance: 10e6 });
     expect(time.referral?.measuredTime).toBeCloseTo(1.5 * Math.log(500 / 60), 1);

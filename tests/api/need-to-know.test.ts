@@ -1,4 +1,4 @@
-// Viewers (external assessors, managers) see approved work only (DESIGN.md §2): drafts, in-review and
+// Viewers (external assessors, managers) see approved work only (docs/ARCHITECTURE.md §3): drafts, in-review and
 // returned revisions, their evidence, diffs and draft PDFs answer them 404, and every list they get
 // shows approved revisions only. The demo seed holds one dossier in each state.
 import type supertest from 'supertest';

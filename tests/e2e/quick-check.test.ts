@@ -10,8 +10,8 @@ afterAll(() => browser?.close());
 
 /**
  * The worst-case time the screen should show for the opening example, worked by hand with the
- * textbook RC discharge t = R·C·ln(V0/Vsafe) ([S2], REFERENCE.md §3.1) at the slow corner of
- * DESIGN.md §4.3: R = 2 × R·(1 + 1 %)·(1 + 100 ppm/K × (85 − 25) K), C = 2 × 3.3 µF × (1 + 5 %), V0 = 622 V.
+ * textbook RC discharge t = R·C·ln(V0/Vsafe) ([S2], docs/DOMAIN.md §3.1) at the slow corner of
+ * docs/DOMAIN.md §3.3: R = 2 × R·(1 + 1 %)·(1 + 100 ppm/K × (85 − 25) K), C = 2 × 3.3 µF × (1 + 5 %), V0 = 622 V.
  */
 function worstCaseSeconds(resistorOhms: number): number {
   const r = 2 * resistorOhms * 1.01 * (1 + 100e-6 * (85 - 25));
@@ -114,7 +114,7 @@ describe('Quick check in the browser', () => {
     expect(await verdictText(p)).toBe('✕ Fails: 1 of 3 checks');
     expect(await p.page.getByTestId('quick-check-strip').textContent()).toContain('Discharge time (bleeders)');
 
-    // 230 V mains +10 %: √2 × 253 V = 357.8 V (REFERENCE.md §3.4, computed there from the +10 % practice of [S2]).
+    // 230 V mains +10 %: √2 × 253 V = 357.8 V (docs/DOMAIN.md §3.4, computed there from the +10 % practice of [S2]).
     await p.page.getByTestId('design-mains-open').click();
     await p.page.getByTestId('design-mains-rms').fill('230 V');
     await p.page.getByTestId('design-mains-tolerance').fill('10 %');
@@ -128,7 +128,7 @@ describe('Quick check in the browser', () => {
     await p.page.getByTestId('design-bus-nominalVoltage').fill('325 V');
     await expect.poll(() => p.page.getByTestId('design-bus-maxVoltage-error').count()).toBe(0);
 
-    // Constant current: incomplete until the current is given, then t = C·ΔV/I + delay (REFERENCE.md §3.8).
+    // Constant current: incomplete until the current is given, then t = C·ΔV/I + delay (docs/DOMAIN.md §3.8).
     await p.page.getByTestId('design-active-mode-constant-current').click();
     await expect.poll(() => verdictText(p)).toBe('◷ Incomplete: no verdict yet');
     expect(await p.page.getByTestId('results-missing').textContent()).toContain('Active discharge: Discharge current');

@@ -7,7 +7,7 @@ beforeAll(async () => {
 });
 afterAll(() => browser?.close());
 
-// What each role may reach from the navigation (DESIGN.md §2).
+// What each role may reach from the navigation (docs/ARCHITECTURE.md §3).
 const expectedNav: Record<string, { shows: string[]; hides: string[] }> = {
   admin: { shows: ['overview', 'check', 'dossiers', 'reviews', 'team', 'outbox'], hides: [] },
   engineer: { shows: ['overview', 'check', 'dossiers'], hides: ['reviews', 'team', 'outbox'] },

@@ -18,7 +18,7 @@ describe('snubbers in a revision', () => {
     await p.page.goto(`${browser.server.url}/revisions/${draft.id}`);
     await p.page.getByTestId('design-tab').waitFor();
     await p.page.getByTestId('rev-snubbers-add').click();
-    // The constructed example of REFERENCE.md E12 with its suggested parts, at 48 V and 250 kHz.
+    // The constructed example of docs/DOMAIN.md §4 E12 with its suggested parts, at 48 V and 250 kHz.
     const fields: Array<[string, string]> = [
       ['name', 'R12/C7'],
       ['location', 'across Q3 drain–source'],

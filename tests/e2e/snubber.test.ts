@@ -37,7 +37,7 @@ async function sizeE12Example(p: WatchedPage, name: string): Promise<void> {
   await p.page.getByTestId('sizing-switchingVoltage').fill('48 V');
   await p.page.getByTestId('sizing-switchingFrequency').fill('250 kHz');
 
-  // REFERENCE.md §4 E12 (constructed, computed): f0 = 20 MHz, C_add = 300 pF, f1 = 10 MHz →
+  // docs/DOMAIN.md §4 E12 (constructed, computed): f0 = 20 MHz, C_add = 300 pF, f1 = 10 MHz →
   // C_par = 100 pF, L_par = 633 nH, R = 79.6 Ω; 48 V, 250 kHz with C_snub 300–400 pF → P = 0.17–0.23 W.
   await expect.poll(() => value(p, 'cpar')).toBe('100 pF');
   expect(await value(p, 'lpar')).toBe('633 nH');

@@ -274,7 +274,7 @@ describe('screens a certification engineer trusts', { timeout: 180_000 }, () => 
     await p.page.getByTestId('sizing-f0').fill('20 MHz');
     await p.page.getByTestId('sizing-cAdd').fill('300 pF');
     await p.page.getByTestId('sizing-f1').fill('10 MHz');
-    // REFERENCE.md §4 E12 (constructed): L_par 633 nH, C_par 100 pF; nearest parts 82 Ω (E24) and 330 pF (E12).
+    // docs/DOMAIN.md §4 E12 (constructed): L_par 633 nH, C_par 100 pF; nearest parts 82 Ω (E24) and 330 pF (E12).
     await expect.poll(() => p.page.getByTestId('result-r-e24-value').textContent()).toBe('82 Ω');
     await p.page.getByTestId(`sizing-add-to-${first}`).scrollIntoViewIfNeeded();
     await p.shot('trust-snubber-to-draft-wide');

@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { computeDischarge } from '../../shared/engine';
 import { designDraftSchema, designSchema, dischargeInputSchema, dischargeResultSchema, requirementSchema } from '../../shared/schema/discharge';
 
-// DESIGN.md §4.4 example body, verbatim.
+// docs/ARCHITECTURE.md §6.3 example body, verbatim.
 const example = {
   requirement: { safeVoltage: 60, maxTime: 5, maxEnergy: null, condition: 'after mains disconnection', reference: "user's clause text" },
   design: {
@@ -39,7 +39,7 @@ function withLeaf(path: string, value: unknown): unknown {
 }
 
 describe('dischargeInputSchema', () => {
-  it('accepts the DESIGN.md §4.4 example as written', () => {
+  it('accepts the docs/ARCHITECTURE.md §6.3 example as written', () => {
     expect(dischargeInputSchema.safeParse(example).success).toBe(true);
     expect(designSchema.safeParse(example.design).success).toBe(true);
   });

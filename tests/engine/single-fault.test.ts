@@ -1,6 +1,6 @@
 // Single-fault checks. Test-report forms for IEC 62368-1 record the discharge under normal and
 // single-fault conditions ([S6]); the fault cases (one bleeder open: its string lost; one series
-// resistor shorted: the rest carry V0/(n−1)) are common practice (REFERENCE.md §5b). Each figure is
+// resistor shorted: the rest carry V0/(n−1)) are common practice (docs/DOMAIN.md §5.3). Each figure is
 // checked against ngspice on the faulted network, built element by element here, and by hand.
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
@@ -15,7 +15,7 @@ function check(result: DischargeResult, id: string): Check {
   return found;
 }
 
-/** Component corners written out from DESIGN.md §4.3 (independent of the engine's network code). */
+/** Component corners written out from docs/DOMAIN.md §3.3 (independent of the engine's network code). */
 function corners(d: Design) {
   const { bleeder: b, capacitors: c, ambient: a } = d;
   const tcr = (t: number) => 1 + b.tcrPpmPerK * 1e-6 * (t - 25);
@@ -106,7 +106,7 @@ describe('single-fault checks against ngspice on the faulted network', () => {
     const spice = await openBleederCrossing(design, req.safeVoltage, hand);
     expect(Math.abs((time.value ?? NaN) - spice) / spice).toBeLessThan(1e-3);
 
-    // Short: the other n_s − 1 carry V0/(n_s − 1); P = V²/R_min (REFERENCE §3.6).
+    // Short: the other n_s − 1 carry V0/(n_s − 1); P = V²/R_min (docs/DOMAIN.md §3.6).
     const stress = await shortedResistorStress(design);
     const perResistor = net.vMax / (series - 1);
     expect(Math.abs(stress.voltage - perResistor) / perResistor).toBeLessThan(1e-6);
@@ -119,7 +119,7 @@ describe('single-fault checks against ngspice on the faulted network', () => {
 });
 
 describe('single-fault checks by hand from published examples', () => {
-  // [S2] (REFERENCE E1): 1.32 µF from 360 V to 60 V within 0.75 s through 220 kΩ (t = 0.520 s).
+  // [S2] (docs/DOMAIN.md §4 E1): 1.32 µF from 360 V to 60 V within 0.75 s through 220 kΩ (t = 0.520 s).
   const s2 = { capacitance: 1.32e-6, voltage: 360, resistance: 220e3 };
 
   it('one 220 kΩ bleeder open leaves no discharge path: no value, fails, and the verdict fails', () => {
@@ -156,7 +156,7 @@ describe('single-fault checks by hand from published examples', () => {
   });
 
   it('[E9] two 100 kΩ in series across 800 V: one shorted puts 800 V and 6.4 W on the other, against its ratings as rated', () => {
-    // REFERENCE E9: 1.6 W each in normal use (400 V across 100 kΩ); shorted, 800²/100 kΩ = 6.4 W.
+    // docs/DOMAIN.md §4 E9: 1.6 W each in normal use (400 V across 100 kΩ); shorted, 800²/100 kΩ = 6.4 W.
     const design = idealDesign({ capacitance: 1e-3, voltage: 800, resistance: 100e3 });
     design.bleeder = { ...design.bleeder, series: 2, powerRating: 5, elementVoltage: 1000, derating: 0.5 };
     const result = computeDischarge({ requirement: requirement({ safeVoltage: 60, maxTime: 600, singleFault: true }), design });
@@ -181,7 +181,7 @@ describe('single-fault checks by hand from published examples', () => {
   });
 
   it('with active discharge the fault is the active circuit failing: the fallback check judges it, the open bleeder is not counted twice', () => {
-    // [S10] scenario (REFERENCE E4): 600 µF, 450 V → 60 V, 0.2 A constant current → 1.17 s; bleeders as fallback.
+    // [S10] scenario (docs/DOMAIN.md §4 E4): 600 µF, 450 V → 60 V, 0.2 A constant current → 1.17 s; bleeders as fallback.
     const design = idealDesign(
       { capacitance: 600e-6, voltage: 450, resistance: 100e3 },
       { active: { mode: 'constant-current', current: 0.2, delay: 0 } },

@@ -1,4 +1,4 @@
-// Published worked examples of REFERENCE.md §4, each checked to the rounding its source gives.
+// Published worked examples of docs/DOMAIN.md §4, each checked to the rounding its source gives.
 import { describe, expect, it } from 'vitest';
 import {
   balancingBound,
@@ -34,7 +34,7 @@ describe('E1 — [S2] "Protection against residual voltage" (IEC 60204-1 summary
 
   it('with the chosen 220 kΩ: τ = 0.290 s and t = 0.520 s', () => {
     const result = computeDischarge(idealInput({ capacitance: 1.32e-6, voltage: 360, safeVoltage: 60, maxTime: 0.75, resistance: 220e3 }));
-    // [S2] (t with 220 kΩ recomputed in REFERENCE.md): τ = 0.290 s, t = 0.520 s.
+    // [S2] (t with 220 kΩ recomputed in docs/DOMAIN.md §4): τ = 0.290 s, t = 0.520 s.
     expect(result.worstCase?.tau).toBeCloseTo(0.29, 3);
     expect(check(result, 'discharge-time').value).toBeCloseTo(0.52, 3);
     expect(check(result, 'discharge-time').pass).toBe(true);
@@ -65,7 +65,7 @@ describe('E3 — [S11] AMK "Calculation example – discharging circuit"', () =>
   });
 
   it('leaves about 0.76 V after 300 s (the source rounds to "1 V")', () => {
-    // [S11] rounds to 1 V; REFERENCE.md gives 0.76 V.
+    // [S11] rounds to 1 V; docs/DOMAIN.md §4 gives 0.76 V.
     expect(rcVoltage(600, 45, 300)).toBeCloseTo(0.76, 2);
     expect(Math.round(rcVoltage(600, 45, 300))).toBe(1);
     const at300 = result.curve.find((p) => p.t === 300);
@@ -73,7 +73,7 @@ describe('E3 — [S11] AMK "Calculation example – discharging circuit"', () =>
   });
 
   it('dissipates 2.4 W continuously at 600 V', () => {
-    // REFERENCE.md E3: P computed = 2.4 W.
+    // docs/DOMAIN.md §4 E3: P computed = 2.4 W.
     expect(check(result, 'resistor-power').value).toBeCloseTo(2.4, 6);
   });
 });
@@ -82,7 +82,7 @@ describe('E4 — [S10] active-discharge reference design scenario: 600 µF, 450 
   const base = { capacitance: 600e-6, voltage: 450, safeVoltage: 60, maxTime: 2, resistance: 1e6 };
 
   it('stores 60.75 J at 450 V and 1.08 J at 60 V', () => {
-    // REFERENCE.md E4 (numbers computed for the [S10] scenario).
+    // docs/DOMAIN.md §4 E4 (numbers computed for the [S10] scenario).
     expect(storedEnergy(600e-6, 450)).toBeCloseTo(60.75, 2);
     expect(storedEnergy(600e-6, 60)).toBeCloseTo(1.08, 2);
     const result = computeDischarge(idealInput(base));
@@ -162,7 +162,7 @@ describe('E6 — [S3] IEC 61010-1 6.10.3 case (emc-pstc thread): 4.4 µF filter 
   });
 });
 
-describe('REFERENCE.md §3.2 (derived): 60 V or 0.2 J, the ISO 6469-4 energy alternative [S7]', () => {
+describe('docs/DOMAIN.md §3.2 (derived): 60 V or 0.2 J, the ISO 6469-4 energy alternative [S7]', () => {
   it('the 0.2 J point comes above 60 V below 111 µF, and the 60 V point first above it', () => {
     const criterion = (c: number) => safeThreshold(c, { safeVoltage: 60, maxEnergy: 0.2 }).criterion;
     expect(criterion(110e-6)).toBe('energy');
@@ -183,13 +183,13 @@ describe('REFERENCE.md §3.2 (derived): 60 V or 0.2 J, the ISO 6469-4 energy alt
   });
 });
 
-describe('E8 — IEC 60335-1 cl. 22.5 limits [S5] (REFERENCE.md, computed): 1 µF, 357.8 V → 34 V within 1 s', () => {
+describe('E8 — IEC 60335-1 cl. 22.5 limits [S5] (docs/DOMAIN.md §4, computed): 1 µF, 357.8 V → 34 V within 1 s', () => {
   it('needs R ≤ 425 kΩ', () => {
     expect(Math.round(maxDischargeResistance(1, 1e-6, 357.8, 34) / 1e3)).toBe(425);
   });
 });
 
-describe('E9 — balancing, REFERENCE.md §3.7 (computed): 2 × 450 V caps, 800 V bus, I_max 1 mA', () => {
+describe('E9 — balancing, docs/DOMAIN.md §3.7 (computed): 2 × 450 V caps, 800 V bus, I_max 1 mA', () => {
   const design = idealDesign(
     { capacitance: 1000e-6, voltage: 800, resistance: 100e3 },
     {

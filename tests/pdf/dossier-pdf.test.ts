@@ -19,7 +19,7 @@ import { nssDatabase, securityStore, signatureParts, timestampParts } from './si
 
 const run = promisify(execFile);
 
-// DESIGN.md §7, copied here as the specification the PDF must carry.
+// docs/DOMAIN.md §6, copied here as the specification the PDF must carry.
 const CAUTION_SENTENCES = [
   'Stored energy in DC-link capacitors can kill.',
   'Calculations here support, and never replace, measurement and the judgement of a qualified person.',

@@ -11,7 +11,7 @@ const byId = (checks: ReturnType<typeof snubberChecks>, id: string) => {
   return check;
 };
 
-// REFERENCE.md E12 operating point (constructed example): 48 V, 250 kHz, parts 82 Ω / 330 pF across
+// docs/DOMAIN.md §4 E12 operating point (constructed example): 48 V, 250 kHz, parts 82 Ω / 330 pF across
 // the 633 nH / 100 pF node.
 const e12: RcSnubber = {
   name: 'R2/C5',
@@ -84,7 +84,7 @@ describe('RC snubber checks', () => {
   });
 });
 
-// RCD formulas of REFERENCE.md §3.9 are from memory (Severns and Todd titles in [S14]; only their
+// RCD formulas of docs/DOMAIN.md §3.9 are from memory (Severns and Todd titles in [S14]; only their
 // introductions were read). The numbers below are worked by hand from those formulas.
 const turnoff: RcdTurnoffSnubber = {
   name: 'D3/R7/C9',

@@ -1,4 +1,4 @@
-// The RCD formulas of REFERENCE.md §3.9 are from memory (Severns and Todd titles in [S14]; only their
+// The RCD formulas of docs/DOMAIN.md §3.9 are from memory (Severns and Todd titles in [S14]; only their
 // introductions were read). Here ngspice, an independent circuit simulator, runs the circuits those
 // formulas describe, and the engine's checks must agree with what it simulates (2 %).
 import { describe, expect, it } from 'vitest';
@@ -85,7 +85,7 @@ describe('RCD turn-off snubber in ngspice (formulas from memory)', () => {
 
 describe('RCD clamp of a flyback primary in ngspice (formulas from memory)', () => {
   // Netlist inputs: 5 µH leakage charged to 1.5 A in 3 µs each 65 kHz cycle, 100 V reflected, 10 nF
-  // clamp capacitor, and the resistor R = V_c²/P that REFERENCE.md gives for a 150 V clamp.
+  // clamp capacitor, and the resistor R = V_c²/P that docs/DOMAIN.md §3.9 gives for a 150 V clamp.
   const L = 5e-6;
   const f = 65e3;
   const vr = 100;

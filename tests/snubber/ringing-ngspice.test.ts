@@ -1,4 +1,4 @@
-// The bench procedure of REFERENCE.md §3.9 replayed on ngspice (an independent circuit simulator):
+// The bench procedure of docs/DOMAIN.md §3.9 replayed on ngspice (an independent circuit simulator):
 // ring a node, add a known capacitor, size the snubber from the two frequencies, then compare the
 // simulated overshoot peak and ring-down time constant, with and without the snubber, to the engine's
 // analytic step response. Agreement required: 2 % on the overshoot and on the decay time constant.
@@ -9,7 +9,7 @@ import { envelopeTimeConstant, localMaxima, periodOf, pronyPoles, resample } fro
 
 // The circuits the simulator rings. These are netlist inputs, not expected results: every expectation
 // below is the engine's prediction set against what ngspice produces from the same netlist. The first
-// is the node behind REFERENCE.md E12 (20 MHz ring, 300 pF added → 10 MHz; constructed example); the
+// is the node behind docs/DOMAIN.md §4 E12 (20 MHz ring, 300 pF added → 10 MHz; constructed example); the
 // second a 400 V stage with a larger device capacitance. Loop loss makes the bare ring decay measurably.
 interface Bench {
   name: string;
@@ -90,7 +90,7 @@ describe.each(benches)('snubber sized from a simulated bench measurement: $name'
     const plainRead = readRing(plain, bench.step);
     const f1 = readRing(loaded, bench.step).frequency;
     if (bench.stated) {
-      // REFERENCE.md E12 (constructed example, computed): 20 MHz bare, 10 MHz with 300 pF added.
+      // docs/DOMAIN.md §4 E12 (constructed example, computed): 20 MHz bare, 10 MHz with 300 pF added.
       within(plainRead.frequency, bench.stated.f0, 0.001);
       within(f1, bench.stated.f1, 0.001);
     }

@@ -1,4 +1,4 @@
-// Sizing an RC snubber from a ringing measurement, against the worked example of REFERENCE.md §4 and
+// Sizing an RC snubber from a ringing measurement, against the worked example of docs/DOMAIN.md §4 and
 // the published rule of the measured-ringing method.
 import { describe, expect, it } from 'vitest';
 import { rcSnubberPower, ringingCurves, sizeFromRinging } from '../../shared/engine/snubber';
@@ -7,7 +7,7 @@ import { E12, E24, nearestPreferred } from '../../shared/engine/snubber-e-series
 /** |actual − expected| within half a unit of the last digit the source prints. */
 const printed = (actual: number, expected: number, lastDigit: number) => expect(Math.abs(actual - expected)).toBeLessThanOrEqual(lastDigit / 2);
 
-describe('REFERENCE.md E12 (constructed example, computed; no published source)', () => {
+describe('docs/DOMAIN.md §4 E12 (constructed example, computed; no published source)', () => {
   const measured = { f0: 20e6, cAdd: 300e-12, f1: 10e6 };
 
   it('20 MHz → 10 MHz with 300 pF added: C_par = 100 pF, L_par = 633 nH, R = 79.6 Ω', () => {

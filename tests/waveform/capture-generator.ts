@@ -36,7 +36,7 @@ export function voltageAt(spec: DecaySpec, t: number): number {
       // V = V0·e^(−t/τ) (common practice)
       return spec.v0 * Math.exp(-x / (spec.tau ?? 1)) + offset;
     case 'constant-current':
-      // C·dV/dt = −I: a straight ramp (REFERENCE §3.8)
+      // C·dV/dt = −I: a straight ramp (docs/DOMAIN.md §3.8)
       return Math.max(0, spec.v0 - (spec.slope ?? 1) * x) + offset;
     case 'constant-power':
       // C·V·dV/dt = −P (energy balance, common practice): V² = V0² − 2·(P/C)·t

@@ -155,7 +155,7 @@ describe('UTF-16 LE/BE and UTF-8 with a byte-order mark read exactly as plain UT
       },
     ],
     [
-      'a constant-current active discharge ([S10] scenario, REFERENCE E4: 1.17 s)',
+      'a constant-current active discharge ([S10] scenario, docs/DOMAIN.md §4 E4: 1.17 s)',
       () => {
         const spec: DecaySpec = {
           shape: 'constant-current',
@@ -209,7 +209,7 @@ describe('UTF-16 LE/BE and UTF-8 with a byte-order mark read exactly as plain UT
     expect(result.notes).toContain('The file was decoded from UTF-16 LE text (byte-order mark).');
   });
 
-  test('an ngspice transient of the [S2] bleeder (REFERENCE E1) written as UTF-16 BE: τ = R·C and the crossing ngspice measures', async () => {
+  test('an ngspice transient of the [S2] bleeder (docs/DOMAIN.md §4 E1) written as UTF-16 BE: τ = R·C and the crossing ngspice measures', async () => {
     const e1 = { v0: 360, capacitance: 1.32e-6, resistance: 220e3, open: 0.1, stop: 1.6, step: 2e-4 };
     const capture = await spiceCapture(e1, SAFE);
     const result = await analyseCaptureText(encodeText(capture.text, 'utf-16be'), { safeVoltage: SAFE, channel: 'Bus', markerChannel: 'Relay' });

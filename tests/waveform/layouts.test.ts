@@ -221,7 +221,7 @@ describe('imperfect but exponential traces', () => {
 });
 
 describe('non-exponential traces: crossing measured, no time constant invented', () => {
-  test('constant-current active discharge, 600 µF from 450 V at 0.2 A ([S10] scenario, REFERENCE E4: 1.17 s)', async () => {
+  test('constant-current active discharge, 600 µF from 450 V at 0.2 A ([S10] scenario, docs/DOMAIN.md §4 E4: 1.17 s)', async () => {
     const spec: DecaySpec = {
       shape: 'constant-current',
       v0: 450,

@@ -1,5 +1,5 @@
 // The measured-discharge checks, fed with analyses of ngspice captures of the [S2] bleeder example
-// (REFERENCE E1: 1.32 µF, 220 kΩ, 360 V → 60 V within the 0.75 s limit; τ = 0.290 s, t = 0.520 s).
+// (docs/DOMAIN.md §4 E1: 1.32 µF, 220 kΩ, 360 V → 60 V within the 0.75 s limit; τ = 0.290 s, t = 0.520 s).
 import { describe, expect, test } from 'vitest';
 import { analyseCaptureText } from '../../server/evidence/waveform/reader';
 import { measuredDischargeCheck, predictedTauBand, type PredictedDecay } from '../../shared/engine/measured';
@@ -10,7 +10,7 @@ import { spiceCapture, type BleederCircuit } from './spice-capture';
 const requirement = { safeVoltage: 60, maxTime: 0.75, maxVoltage: 360, capacitanceMin: 1.32e-6 * 0.9 };
 const e1: BleederCircuit = { v0: 360, capacitance: 1.32e-6, resistance: 220e3, open: 0.1, stop: 1.6, step: 2e-4 };
 const nominalTau = 220e3 * 1.32e-6;
-// Film capacitor ±10 %, resistor ±1 % (typical tolerances, REFERENCE §3.3, from memory): slow corner
+// Film capacitor ±10 %, resistor ±1 % (typical tolerances, docs/DOMAIN.md §3.3, from memory): slow corner
 // R·1.01·C·1.10; fast corner R·0.99·C·0.90, i.e. 10.9 % below nominal.
 const predicted: PredictedDecay = { nominalTau, worstCaseTau: nominalTau * 1.01 * 1.1, toleranceBand: 1 - 0.99 * 0.9 };
 
@@ -72,7 +72,7 @@ describe('measured-discharge checks from waveform evidence', () => {
   });
 
   test('a non-exponential (constant-current) trace: crossing checked, τ comparison left out and said so', async () => {
-    // [S10] scenario, REFERENCE E4: 600 µF from 450 V at 0.2 A reaches 60 V after 1.17 s.
+    // [S10] scenario, docs/DOMAIN.md §4 E4: 600 µF from 450 V at 0.2 A reaches 60 V after 1.17 s.
     const { time, volts } = sampleDecay({
       shape: 'constant-current',
       v0: 450,

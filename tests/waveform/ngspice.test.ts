@@ -4,7 +4,7 @@ import { describe, expect, test } from 'vitest';
 import { analyseCaptureText } from '../../server/evidence/waveform/reader';
 import { spiceCapture } from './spice-capture';
 
-// [S2] bleeder worked example (REFERENCE E1): 1.32 µF, 220 kΩ, 360 V → τ = 0.290 s, 60 V after 0.520 s.
+// [S2] bleeder worked example (docs/DOMAIN.md §4 E1): 1.32 µF, 220 kΩ, 360 V → τ = 0.290 s, 60 V after 0.520 s.
 const e1 = { v0: 360, capacitance: 1.32e-6, resistance: 220e3, open: 0.1, stop: 1.6, step: 2e-4 };
 const tau = e1.resistance * e1.capacitance;
 const crossing = tau * Math.log(360 / 60);

@@ -65,7 +65,7 @@ describe('negative rails', () => {
     expect(check(analysis, 0.5, 0.1)).toMatchObject({ pass: false, value: null });
   });
 
-  test('negative constant-current active discharge: the crossing is measured though the fit is poor ([S10] scenario, REFERENCE E4: 1.17 s)', async () => {
+  test('negative constant-current active discharge: the crossing is measured though the fit is poor ([S10] scenario, docs/DOMAIN.md §4 E4: 1.17 s)', async () => {
     const spec: DecaySpec = {
       shape: 'constant-current',
       v0: 450,
@@ -93,7 +93,7 @@ describe('negative rails', () => {
     expectWithin(given.timeToSafe, timeToLevel(spec, SAFE), 0.01);
   });
 
-  test('an ngspice transient of the [S2] bleeder on a −360 V bus (REFERENCE E1): τ = R·C and the crossing ngspice measures', async () => {
+  test('an ngspice transient of the [S2] bleeder on a −360 V bus (docs/DOMAIN.md §4 E1): τ = R·C and the crossing ngspice measures', async () => {
     const e1 = { v0: -360, capacitance: 1.32e-6, resistance: 220e3, open: 0.1, stop: 1.6, step: 2e-4 };
     const capture = await spiceCapture(e1, SAFE);
     const analysis = await analyseCaptureText(capture.text, { safeVoltage: SAFE, channel: 'Bus', markerChannel: 'Relay' });

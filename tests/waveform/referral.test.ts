@@ -1,5 +1,5 @@
-// Measured evidence referred to the requirement's conditions (REFERENCE.md §5b), on captures that
-// ngspice (an independent circuit simulator) produces of the [S2] bleeder example (REFERENCE E1:
+// Measured evidence referred to the requirement's conditions (docs/DOMAIN.md §5.3), on captures that
+// ngspice (an independent circuit simulator) produces of the [S2] bleeder example (docs/DOMAIN.md §4 E1:
 // 1.32 µF, 220 kΩ, 360 V maximum → 60 V within 0.75 s; τ = 0.290 s, t = 0.520 s).
 import { describe, expect, test } from 'vitest';
 import { analyseCaptureText } from '../../server/evidence/waveform/reader';
@@ -11,7 +11,7 @@ import { spiceCapture, type BleederCircuit } from './spice-capture';
 
 const C = 1.32e-6; // [S2]
 const R = 220e3; // [S2]
-const C_MIN = C * 0.9; // a film capacitor at its −10 % tolerance (typical, REFERENCE §3.3, from memory)
+const C_MIN = C * 0.9; // a film capacitor at its −10 % tolerance (typical, docs/DOMAIN.md §3.3, from memory)
 const conditions: MeasuredConditions = { safeVoltage: 60, maxTime: 0.75, maxVoltage: 360, capacitanceMin: C_MIN };
 const predicted: PredictedDecay = { nominalTau: R * C, worstCaseTau: R * C * 1.01 * 1.1, toleranceBand: 1 - 0.99 * 0.9 };
 const e1: BleederCircuit = { v0: 360, capacitance: C, resistance: R, open: 0.1, stop: 1.6, step: 2e-4 };
@@ -35,7 +35,7 @@ const within = (actual: number | null, expected: number, relative: number) => {
 describe('start voltage: a capture from below the maximum bus is referred to it', () => {
   test('from 300 V: t(360→60) = t(300→60) + τ·ln(360/300), against ngspice from 360 V and the hand figure', async () => {
     const [check] = measuredDischargeCheck(await analyse({ ...e1, v0: 300 }), conditions, predicted, 'low-start.csv');
-    // RC decay law (REFERENCE §5b): the same decay from 360 V; hand figure τ·ln(360/60) = 0.2904 s × 1.7918 = 0.5203 s ([S2] E1).
+    // RC decay law (docs/DOMAIN.md §5.3): the same decay from 360 V; hand figure τ·ln(360/60) = 0.2904 s × 1.7918 = 0.5203 s ([S2] E1).
     within(check.value, await spiceCrossing(e1), 0.01);
     within(check.value, R * C * Math.log(360 / 60), 0.01);
     // As measured the capture says only τ·ln(300/60) = 0.4674 s: the referral adds 53 ms.
@@ -67,7 +67,7 @@ describe('start voltage: a capture from below the maximum bus is referred to it'
   });
 
   test('a trace that is not a clean exponential cannot be referred: the check fails and asks for a capture from the maximum bus', async () => {
-    // [S10] scenario, REFERENCE E4: a constant-current discharge, here captured from 400 V of a 450 V bus.
+    // [S10] scenario, docs/DOMAIN.md §4 E4: a constant-current discharge, here captured from 400 V of a 450 V bus.
     const { time, volts } = sampleDecay({
       shape: 'constant-current',
       v0: 400,

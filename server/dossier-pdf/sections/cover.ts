@@ -84,7 +84,7 @@ export function cover(model: DossierPdfModel): Content[] {
   return content;
 }
 
-/** The cautions in full (DESIGN.md §7). */
+/** The cautions in full (docs/DOMAIN.md §6). */
 export function cautionsBox(): Content {
   return {
     table: {

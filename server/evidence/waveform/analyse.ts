@@ -1,4 +1,4 @@
-// What a discharge capture proves (REFERENCE.md §5 "Analysis"): the disconnect instant t0, V0, the
+// What a discharge capture proves (docs/DOMAIN.md §5.2): the disconnect instant t0, V0, the
 // time until the voltage falls below the safe level and stays there, and the time constant of the decay.
 //
 // One full pass builds a bounded summary (summary.ts); every later step works on that summary, and

@@ -1,5 +1,5 @@
 // measureCrossings: when the voltage is within the safe level to stay, and the voltage at the time limit
-// (REFERENCE.md §5 step 2). Safe means |v| ≤ the safe level: the fall of the rail below it, and any
+// (docs/DOMAIN.md §5.2 step 2). Safe means |v| ≤ the safe level: the fall of the rail below it, and any
 // excursion of the other sign beyond it (ringing through zero, a reversed bus), both have to be over.
 import type { AnalysisOptions } from '../../../shared/schema/waveform';
 import { interpolateTime, lastAbove, movingAverage, round, warn, zoom, type Context } from './context';

@@ -1,5 +1,5 @@
 // fitDecay: V = A·e^(−(t−t0)/τ) + B over the window from the last pass through 90 % of the fall to the
-// first pass through 10 % (REFERENCE.md §5 step 3), and whether the fit is good enough to report τ.
+// first pass through 10 % (docs/DOMAIN.md §5.2 step 3), and whether the fit is good enough to report τ.
 import { interpolateTime, lastAbove, round, zoom, type Context } from './context';
 import { fitExponential, type ExponentialFit } from './fit';
 import { firstAtOrAfter, slice, type Series } from './summary';

@@ -1,4 +1,4 @@
-// Curve fitting on bucketed samples (REFERENCE.md §5 step 3): a log-linear least-squares start, refined
+// Curve fitting on bucketed samples (docs/DOMAIN.md §5.2 step 3): a log-linear least-squares start, refined
 // by Levenberg–Marquardt on V = A·e^(−(t−tRef)/τ) + B. Written here rather than taken from a package
 // because the fit works on bucket means weighted by their sample counts and needs the residual over the
 // raw samples, which a generic point-list fitter cannot give; three parameters need only a 3×3 solve.

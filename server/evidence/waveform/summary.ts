@@ -105,7 +105,6 @@ export class Summary implements Series {
       let tLo = open[9];
       let hi = open[10];
       let tHi = open[11];
-      let tEnd = open[12];
       let msum = open[13];
       let mlo = open[14];
       let mhi = open[15];
@@ -148,7 +147,7 @@ export class Summary implements Series {
           else if (m > mhi) mhi = m;
         }
       }
-      tEnd = data[(end - 1) * stride];
+      const tEnd = data[(end - 1) * stride];
       k += end - r;
       r = end;
       open[0] = k;
