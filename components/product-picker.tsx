@@ -16,7 +16,15 @@ interface Props {
   value: string;
   onChange: (value: string) => void;
   testID: string;
+  /**
+   * `choose` (default) ends the list with "+ New product"; `filter` starts it with "All products" (the
+   * value '') and offers no new product, for narrowing a list rather than filling in a form.
+   */
+  mode?: 'choose' | 'filter';
 }
+
+/** The option that stands for "no product filter". */
+const ALL_PRODUCTS = 'all';
 
 function matches(product: Product, words: string[]): boolean {
   const haystack = `${product.name} ${product.modelNumber}`.toLowerCase();
@@ -24,7 +32,7 @@ function matches(product: Product, words: string[]): boolean {
 }
 
 /** Picks the equipment under assessment from any number of products: type a few letters of the name or model number. */
-export function ProductPicker({ products, value, onChange, testID }: Props) {
+export function ProductPicker({ products, value, onChange, testID, mode = 'choose' }: Props) {
   const [query, setQuery] = useState('');
   const found = useMemo(() => {
     const words = query.toLowerCase().split(/\s+/).filter(Boolean);
@@ -35,14 +43,14 @@ export function ProductPicker({ products, value, onChange, testID }: Props) {
   const listed = [...(chosen && !found.slice(0, SHOWN).includes(chosen) ? [chosen] : []), ...found.slice(0, SHOWN)];
 
   const option = (key: string, title: string, detail: string | null) => {
-    const selected = key === value;
+    const selected = key === value || (key === ALL_PRODUCTS && value === '');
     return (
       <Pressable
         key={key}
         testID={`${testID}-${key}`}
         accessibilityRole="radio"
         accessibilityState={{ checked: selected }}
-        onPress={() => onChange(key)}
+        onPress={() => onChange(key === ALL_PRODUCTS ? '' : key)}
         style={[styles.option, selected && styles.selected]}
       >
         <Text style={[styles.title, selected && styles.titleSelected]}>
@@ -55,7 +63,12 @@ export function ProductPicker({ products, value, onChange, testID }: Props) {
   };
 
   return (
-    <View style={styles.wrap} accessibilityRole="radiogroup" accessibilityLabel="Equipment under assessment" testID={testID}>
+    <View
+      style={styles.wrap}
+      accessibilityRole="radiogroup"
+      accessibilityLabel={mode === 'filter' ? 'Product' : 'Equipment under assessment'}
+      testID={testID}
+    >
       <View style={styles.row}>
         <TextField
           label="Search products"
@@ -69,7 +82,9 @@ export function ProductPicker({ products, value, onChange, testID }: Props) {
       </View>
       <Text style={type.small} testID={`${testID}-count`}>
         {products.length === 0
-          ? 'No products yet: add the first one.'
+          ? mode === 'filter'
+            ? 'No products yet.'
+            : 'No products yet: add the first one.'
           : found.length === 0
             ? `No product matches “${query.trim()}”.`
             : found.length > SHOWN
@@ -79,8 +94,9 @@ export function ProductPicker({ products, value, onChange, testID }: Props) {
               : `${found.length} of ${products.length} product${products.length === 1 ? '' : 's'}.`}
       </Text>
       <View style={styles.list}>
+        {mode === 'filter' ? option(ALL_PRODUCTS, 'All products', null) : null}
         {listed.map((p) => option(String(p.id), p.name, `Model ${p.modelNumber}`))}
-        {option(NEW_PRODUCT, '+ New product', 'Not in the list: enter its name and model number')}
+        {mode === 'choose' ? option(NEW_PRODUCT, '+ New product', 'Not in the list: enter its name and model number') : null}
       </View>
     </View>
   );

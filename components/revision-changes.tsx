@@ -47,31 +47,45 @@ function firstCounterpart(revision: Revision, others: Revision['siblings']): num
 }
 
 /**
- * What changed between this revision and any other of its dossier (by default the one it came from):
- * inputs in units, checks, notes, evidence. Always read from the older revision to the newer one.
+ * What changed between any two revisions of a dossier, both picked here (by default this one and the one
+ * it came from): inputs in units, checks, notes, evidence. Always read from the older revision to the newer.
  */
 export function RevisionChanges({ revision }: { revision: Revision }) {
   const others = revision.siblings.filter((s) => s.id !== revision.id);
+  const all = [...others, { id: revision.id, number: revision.number }].sort((a, b) => a.number - b.number);
+  const [oneId, setOneId] = useState(revision.id);
   const [otherId, setOtherId] = useState(() => firstCounterpart(revision, others));
-  const other = others.find((s) => s.id === otherId);
-  const [older, newer] = other && other.number > revision.number ? [revision.id, other.id] : [other?.id, revision.id];
-  const diff = useRevisionDiff(newer, older);
-  if (!other)
+  const one = all.find((s) => s.id === oneId);
+  const other = all.find((s) => s.id === otherId);
+  const pair = one && other && one.id !== other.id ? [one, other].sort((a, b) => a.number - b.number) : null;
+  const diff = useRevisionDiff(pair?.[1].id ?? revision.id, pair?.[0].id);
+  if (others.length === 0)
     return (
       <Message
         text={`Revision ${revision.number} is the only revision of this dossier; there is nothing to compare it with.`}
         testID="changes-none"
       />
     );
+  const options = all.map((s) => ({ value: String(s.id), label: `Revision ${s.number}${s.id === revision.id ? ' (this one)' : ''}` }));
   const picker = (
-    <Choice
-      label={`Compare revision ${revision.number} with`}
-      testID="changes-against"
-      options={others.map((s) => ({ value: String(s.id), label: `Revision ${s.number}` }))}
-      value={String(other.id)}
-      onChange={(id) => setOtherId(Number(id))}
-    />
+    <View style={styles.pickers}>
+      <Choice label="Compare revision" testID="changes-this" options={options} value={String(oneId)} onChange={(id) => setOneId(Number(id))} />
+      <Choice
+        label="with revision"
+        testID="changes-against"
+        options={options}
+        value={String(otherId ?? '')}
+        onChange={(id) => setOtherId(Number(id))}
+      />
+    </View>
   );
+  if (!pair)
+    return (
+      <View style={styles.wrap}>
+        {picker}
+        <Message text="Pick two different revisions to see what changed between them." testID="changes-same" />
+      </View>
+    );
   if (diff.isError)
     return (
       <View style={styles.wrap}>
@@ -170,6 +184,7 @@ export function RevisionChanges({ revision }: { revision: Revision }) {
 
 const styles = StyleSheet.create({
   wrap: { gap: space.lg },
+  pickers: { gap: space.md },
   file: { fontFamily: fonts.semibold, fontSize: 14, color: colors.inkMuted, paddingTop: space.sm },
   line: { paddingVertical: space.sm, borderTopWidth: 1, borderTopColor: colors.line, gap: 2 },
   alarm: { backgroundColor: colors.failSoft, paddingHorizontal: space.sm, borderRadius: radius.sm },

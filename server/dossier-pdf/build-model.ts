@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { auditSentence } from '../../shared/audit-sentences';
 import { readAuditChain } from '../audit/chain';
 import type { AppContext } from '../context';
 import { diffRevisions } from '../revisions/diff';
@@ -138,13 +139,18 @@ async function auditOf(db: Knex | Knex.Transaction, dossierId: number): Promise<
   const events: AuditEntry[] = chain.events.map((e) => {
     const payload = (e.payload ?? {}) as Record<string, unknown>;
     const revisionId = e.subjectType === 'revision' ? e.subjectId : payload.revisionId !== undefined ? String(payload.revisionId) : null;
+    const actor = e.actorId ? (names.get(e.actorId) ?? e.actorId) : null;
     return {
       id: e.id,
       at: e.createdAt,
-      actor: e.actorId ? (names.get(e.actorId) ?? e.actorId) : null,
+      actor,
       action: e.action,
       revisionNumber: revisionId ? (numbers.get(revisionId) ?? null) : null,
       payload,
+      sentence: auditSentence(
+        { action: e.action, actorName: actor, subjectType: e.subjectType, subjectId: e.subjectId, payload },
+        { revisionNumber: (id) => numbers.get(String(id)) },
+      ),
       hash: e.hash,
     };
   });

@@ -91,6 +91,8 @@ export interface AuditEntry {
   /** The revision the event concerns, by number, when it concerns one. */
   revisionNumber: number | null;
   payload: Record<string, unknown>;
+  /** The event in words, made by the same helper as the app's audit trail, so both say the same thing. */
+  sentence: string;
   hash: string;
 }
 

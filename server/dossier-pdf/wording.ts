@@ -60,35 +60,3 @@ export const TRUSTED_TIME_WORDS = {
   with: 'The signature carries an RFC 3161 timestamp: the signing time is attested by the time-stamping authority, not by this server’s clock.',
   without: 'The signature carries no trusted timestamp (TSA_URL=none): its time is this server’s own claim.',
 };
-
-const ACTIONS: Record<string, string> = {
-  'dossier.create': 'opened the dossier',
-  'revision.create': 'started revision {n}',
-  'revision.update': 'edited revision {n}',
-  'revision.submit': 'submitted revision {n} for review',
-  'revision.approved': 'approved revision {n}',
-  'revision.returned': 'returned revision {n}',
-  'revision.comment': 'commented on revision {n}',
-  'evidence.add': 'attached {name} to revision {n}',
-  'evidence.remove': 'removed {name} from revision {n}',
-};
-
-/** One audit event as a sentence: "Ilse Marchetti approved revision 2". */
-export function auditSentence(event: {
-  actor: string | null;
-  action: string;
-  revisionNumber: number | null;
-  payload: Record<string, unknown>;
-}): string {
-  const who = event.actor ?? 'The system';
-  const template = ACTIONS[event.action];
-  if (!template) return `${who}: ${event.action}`;
-  const name = typeof event.payload.name === 'string' ? `“${event.payload.name}”` : 'a file';
-  let sentence = template.replace('{n}', event.revisionNumber === null ? '?' : String(event.revisionNumber)).replace('{name}', name);
-  if (event.action === 'revision.create' && typeof event.payload.createdFrom === 'number') sentence += ' from an earlier revision';
-  if (event.action === 'revision.update' && Array.isArray(event.payload.fields)) sentence += ` (${event.payload.fields.join(', ')})`;
-  if (event.action === 'revision.approved' && typeof event.payload.signedDossierSha256 === 'string') {
-    sentence += `; signed dossier ${event.payload.signedDossierSha256.slice(0, 16)}…`;
-  }
-  return `${who} ${sentence}`;
-}

@@ -237,6 +237,15 @@ describe('screens a certification engineer trusts', { timeout: 180_000 }, () => 
       await p.page.goto(`${browser.server.url}/revisions/${first}?tab=changes`);
       await p.page.getByTestId(`changes-against-${third}`).click();
       await expect.poll(() => text(p.page, 'changes-direction')).toContain('From revision 1 to revision 3');
+      // Both sides are picked: revisions 1 and 2 compare from revision 3's page too; the same one twice asks for two.
+      await p.page.goto(`${browser.server.url}/revisions/${third}?tab=changes`);
+      await p.page.getByTestId(`changes-this-${first}`).click();
+      await p.page.getByTestId(`changes-against-${second}`).click();
+      await expect.poll(() => text(p.page, 'changes-direction')).toContain('From revision 1 to revision 2');
+      expect(await text(p.page, 'change-bleeder.resistance')).toMatch(/100 kΩ → 82 kΩ/);
+      await expectTidy(p, `trust-compare-1-2-${name}`);
+      await p.page.getByTestId(`changes-against-${first}`).click();
+      await p.page.getByTestId('changes-same').waitFor();
       expect(p.problems).toEqual([]);
       await p.close();
     });

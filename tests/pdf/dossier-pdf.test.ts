@@ -252,6 +252,10 @@ describe('an approved revision', () => {
     for (const event of fixture.model.audit.events) expect(text).toContain(`${event.hash.slice(0, 12)}…`);
     expect(text).toContain('11 Mar 2025 12:00 UTC — Tomas Berglund submitted revision 2 for review');
     expect(text).toContain('7 Mar 2025 16:02 UTC — Ilse Marchetti returned revision 1');
+    // The same sentences as the app's audit trail (shared/audit-sentences.ts): revision numbers, file names, actors.
+    expect(text).toContain('Tomas Berglund started revision 2 from revision 1.');
+    const upload = fixture.model.audit.events.find((e) => e.action === 'evidence.add')!;
+    expect(text).toContain(`Tomas Berglund attached the file “${String(upload.payload.name)}” to revision 2.`);
     expect(text).toContain(fixture.model.audit.headHash!);
   });
 

@@ -2,6 +2,7 @@
 // Results come from the real engine; the "measured" waveforms are synthetic exponential captures with
 // seeded noise, and their analyses are written from the parameters that generated them.
 import { createHash } from 'node:crypto';
+import { auditSentence } from '../../shared/audit-sentences';
 import type { DesignDraft, DischargeResult, Requirement } from '../../shared/schema/discharge';
 import type { WaveformAnalysis } from '../../shared/schema/waveform';
 import { computeDischarge } from '../../shared/engine/index';
@@ -397,7 +398,7 @@ export function servoDriveDossier(options: FixtureOptions): Fixture {
 
 /** The dossier's story as its audit chain tells it: two revisions, uploads, submissions, decisions. */
 function auditTrail(status: RevisionStatus, files: readonly FixtureFile[]): AuditEntry[] {
-  const events: Array<Omit<AuditEntry, 'id' | 'hash'>> = [
+  const events: Array<Omit<AuditEntry, 'id' | 'hash' | 'sentence'>> = [
     { at: '2025-03-03T09:12:00Z', actor: AUTHOR.name, action: 'dossier.create', revisionNumber: null, payload: {} },
     { at: '2025-03-03T09:12:00Z', actor: AUTHOR.name, action: 'revision.create', revisionNumber: 1, payload: { number: 1 } },
     { at: '2025-03-05T14:40:00Z', actor: AUTHOR.name, action: 'revision.update', revisionNumber: 1, payload: { fields: ['design', 'notes'] } },
@@ -419,5 +420,20 @@ function auditTrail(status: RevisionStatus, files: readonly FixtureFile[]): Audi
     events.push({ at: '2025-03-12T11:30:00Z', actor: REVIEWER.name, action: 'revision.returned', revisionNumber: 2, payload: {} });
   return events
     .sort((a, b) => String(a.at).localeCompare(String(b.at)))
-    .map((e, i) => ({ ...e, id: i + 1, hash: createHash('sha256').update(`event ${i}`).digest('hex') }));
+    .map((e, i) => ({
+      ...e,
+      // Revision 1 has id 17 in this story (revision 2 is created from it), revision 2 has id 18.
+      sentence: auditSentence(
+        {
+          action: e.action,
+          actorName: e.actor,
+          subjectType: e.revisionNumber === null ? 'dossier' : 'revision',
+          subjectId: e.revisionNumber === null ? 1 : 16 + e.revisionNumber,
+          payload: e.payload,
+        },
+        { revisionNumber: (id) => ({ 17: 1, 18: 2 })[id] },
+      ),
+      id: i + 1,
+      hash: createHash('sha256').update(`event ${i}`).digest('hex'),
+    }));
 }

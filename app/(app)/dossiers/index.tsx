@@ -1,5 +1,7 @@
 import { Link, useRouter } from 'expo-router';
+import { useCallback, useState } from 'react';
 import { Pressable, StyleSheet, Text, useWindowDimensions, View } from 'react-native';
+import { DossierFilter } from '../../../components/dossier-filter';
 import { LoadMore } from '../../../components/load-more';
 import { StatusBadge, VerdictBadge } from '../../../components/status';
 import { formatWhen } from '../../../shared/dates';
@@ -10,7 +12,8 @@ import { Screen } from '../../../components/ui/screen';
 import { colors, fonts, space, type, WIDE_BREAKPOINT } from '../../../constants/theme';
 import { formatQuantity } from '../../../shared/units';
 import type { DossierListItem } from '../../../hooks/types';
-import { useDossiers } from '../../../hooks/use-dossiers';
+import type { DossierListFilter } from '../../../shared/schema/lists';
+import { useDossiers, useProducts } from '../../../hooks/use-dossiers';
 import { useMe } from '../../../hooks/use-me';
 
 const limitText = (d: DossierListItem) => `${formatQuantity(d.requirement.safeVoltage, 'V')} within ${formatQuantity(d.requirement.maxTime, 's')}`;
@@ -19,7 +22,12 @@ export default function DossiersScreen() {
   const me = useMe().data!;
   const router = useRouter();
   // Newest first, a page at a time; the server filters and orders, so the list is never sorted here.
-  const dossiers = useDossiers();
+  const [filter, setFilter] = useState<DossierListFilter>({});
+  // The filter reports every settled change; an unchanged one keeps the same key (and the pages loaded).
+  const onFilter = useCallback((next: DossierListFilter) => setFilter((f) => (JSON.stringify(f) === JSON.stringify(next) ? f : next)), []);
+  const filtered = filter.q !== undefined || filter.productId !== undefined || filter.status !== undefined;
+  const dossiers = useDossiers(filter);
+  const products = useProducts().data ?? [];
   const list = dossiers.items;
   const wide = useWindowDimensions().width >= WIDE_BREAKPOINT;
   const canCreate = me.role === 'engineer' || me.role === 'admin';
@@ -32,8 +40,14 @@ export default function DossiersScreen() {
       actions={canCreate ? <Button label="New dossier" testID="new-dossier" onPress={() => router.push('/dossiers/new')} /> : null}
     >
       {dossiers.error ? <Message tone="error" text={dossiers.error.message} /> : null}
-      {dossiers.total === 0 ? <Message text="No dossiers yet." /> : null}
-      {wide ? (
+      <DossierFilter products={products} withStatus={me.role !== 'viewer'} onChange={onFilter} />
+      {dossiers.total === 0 ? (
+        <Message
+          testID="dossiers-none"
+          text={filtered ? `No dossier matches${filter.q ? ` “${filter.q}”` : ''} with these filters.` : 'No dossiers yet.'}
+        />
+      ) : null}
+      {list.length === 0 ? null : wide ? (
         <Card>
           <View style={[styles.tr, styles.th]}>
             <Text style={[styles.cell, styles.c3, styles.head]}>Dossier</Text>

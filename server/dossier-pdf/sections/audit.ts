@@ -2,7 +2,6 @@ import type { Content, TableCell } from 'pdfmake/interfaces';
 import { dateTime, timestamp } from '../format';
 import { caption, COLOURS, facts, heading, keepWithHeadings, MONO, splittable } from '../layout';
 import type { DossierPdfModel } from '../model';
-import { auditSentence } from '../wording';
 
 /** Section 8: the dossier's audit trail in full, as sentences, with the chain's state and head. */
 export function auditSection(model: DossierPdfModel): Content[] {
@@ -43,7 +42,7 @@ export function auditSection(model: DossierPdfModel): Content[] {
           { text: 'Event hash', bold: true, fillColor: COLOURS.band },
         ],
         rows: audit.events.map((e): TableCell[] => [
-          `${dateTime(e.at)} — ${auditSentence(e)}`,
+          `${dateTime(e.at)} — ${e.sentence}`,
           { text: `${e.hash.slice(0, 12)}…`, font: MONO, fontSize: 7 },
         ]),
         widths: ['*', 70],
