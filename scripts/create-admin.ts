@@ -13,7 +13,7 @@ if (!email || !name) {
   process.exit(2);
 }
 const config = loadConfig(process.env, {});
-const db = await openDatabase(config.dataDir);
+const db = await openDatabase(config.dataDir, { url: config.databaseUrl });
 const id = randomUUID();
 const link = await db.transaction(async (trx) => {
   await trx('user').insert({

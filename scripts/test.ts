@@ -16,8 +16,11 @@ const TOOLS: Array<[string, string]> = [
   ['/usr/bin/pdfimages', 'poppler-utils'],
   // NSS's certutil builds the trust store that pdfsig validates signatures against.
   ['/usr/bin/certutil', 'libnss3-tools'],
+  // PostgreSQL 15's server binaries: the PostgreSQL back end is tested against a real server.
+  ['/usr/lib/postgresql/15/bin/initdb', 'postgresql'],
+  ['/usr/lib/postgresql/15/bin/postgres', 'postgresql'],
 ];
-const APT_LINE = 'apt-get update && apt-get install -y chromium poppler-utils qpdf ngspice openssl libnss3-tools';
+const APT_LINE = 'apt-get update && apt-get install -y chromium poppler-utils qpdf ngspice openssl libnss3-tools postgresql';
 
 console.log('Linting (npm run lint)…');
 const lint = spawnSync('npm', ['run', 'lint'], { stdio: 'inherit' });

@@ -33,11 +33,31 @@ const envSchema = z.object({
   SESSION_SWEEP_MINUTES: z.coerce.number().positive().default(10),
   UPLOAD_LIMIT_WAVEFORM_MB: z.coerce.number().positive().default(512),
   UPLOAD_LIMIT_OTHER_MB: z.coerce.number().positive().default(25),
+  DATABASE_URL: z
+    .string()
+    .regex(/^postgres(ql)?:\/\//, 'a postgres:// URL (leave it unset for the SQLite file in the data folder)')
+    .optional(),
+  EVIDENCE_STORE: z.enum(['folder', 's3']).default('folder'),
+  S3_ENDPOINT: z.string().url().optional(),
+  S3_BUCKET: z.string().min(3).max(63).optional(),
+  S3_REGION: z.string().default('us-east-1'),
+  S3_ACCESS_KEY_ID: z.string().optional(),
+  S3_SECRET_ACCESS_KEY: z.string().optional(),
+  S3_FORCE_PATH_STYLE: boolish,
   SQLITE_BUSY_TIMEOUT_MS: z.coerce.number().int().min(0).max(600_000).default(5_000),
   EVIDENCE_ORPHAN_GRACE_HOURS: z.coerce.number().min(0).default(24),
   WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
+
+export interface S3Settings {
+  endpoint: string | null;
+  bucket: string;
+  region: string;
+  accessKeyId: string | null;
+  secretAccessKey: string | null;
+  forcePathStyle: boolean;
+}
 
 export interface Config {
   production: boolean;
@@ -67,6 +87,10 @@ export interface Config {
   trustProxy: false | number | string;
   sessions: { absoluteMs: number; idleMs: number; perUser: number; sweepMs: number };
   uploadLimits: { waveformBytes: number; otherBytes: number };
+  /** PostgreSQL (DATABASE_URL) instead of the SQLite file in the data folder. */
+  databaseUrl: string | null;
+  /** Where evidence and signed dossiers are kept: the data folder, or an S3-compatible bucket. */
+  evidenceStore: { kind: 'folder' } | { kind: 's3'; s3: S3Settings };
   /** How long a write waits for another writer's lock before answering 503. */
   busyTimeoutMs: number;
   /** How long a stored file no evidence row references any more is kept before the sweep removes it. */
@@ -127,12 +151,30 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       waveformBytes: Math.round(e.UPLOAD_LIMIT_WAVEFORM_MB * 1024 * 1024),
       otherBytes: Math.round(e.UPLOAD_LIMIT_OTHER_MB * 1024 * 1024),
     },
+    databaseUrl: e.DATABASE_URL ?? null,
+    evidenceStore:
+      e.EVIDENCE_STORE === 's3'
+        ? {
+            kind: 's3',
+            s3: {
+              endpoint: e.S3_ENDPOINT ?? null,
+              bucket: e.S3_BUCKET ?? '',
+              region: e.S3_REGION,
+              accessKeyId: e.S3_ACCESS_KEY_ID ?? null,
+              secretAccessKey: e.S3_SECRET_ACCESS_KEY ?? null,
+              forcePathStyle: e.S3_FORCE_PATH_STYLE,
+            },
+          }
+        : { kind: 'folder' },
     busyTimeoutMs: e.SQLITE_BUSY_TIMEOUT_MS,
     orphanGraceMs: e.EVIDENCE_ORPHAN_GRACE_HOURS * 3600_000,
     logLevel: e.LOG_LEVEL,
     webConcurrency: e.WEB_CONCURRENCY ?? availableParallelism(),
     ...overrides,
   };
+  if (config.evidenceStore.kind === 's3' && !config.evidenceStore.s3.bucket) {
+    throw new StartupError('invalid configuration: S3_BUCKET: EVIDENCE_STORE=s3 needs the bucket name');
+  }
   if (config.production) {
     const missing = [
       !config.smtp.url && 'SMTP_URL',

@@ -45,15 +45,16 @@ const systemCode = (err: unknown): string => String((err as { code?: unknown } |
  */
 export function storageFault(err: unknown): AppError | null {
   const code = systemCode(err);
-  if (code.startsWith('SQLITE_BUSY') || code.startsWith('SQLITE_LOCKED')) {
+  // PostgreSQL's SQLSTATEs beside SQLite's codes: lock wait timed out, deadlock, serialization failure.
+  if (code.startsWith('SQLITE_BUSY') || code.startsWith('SQLITE_LOCKED') || ['55P03', '40P01', '40001'].includes(code)) {
     return new AppError(503, 'busy', 'The database is busy with another writer; nothing was saved. Try again in a moment.', undefined, {
       headers: { 'Retry-After': '2' },
     });
   }
-  if (code === 'ENOSPC' || code === 'EDQUOT' || code.startsWith('SQLITE_FULL')) {
+  if (code === 'ENOSPC' || code === 'EDQUOT' || code.startsWith('SQLITE_FULL') || code === '53100') {
     return new AppError(507, 'insufficient_storage', 'The server has no storage space left; nothing was saved. Ask the administrator to free space.');
   }
-  if (code === 'EROFS' || code === 'EACCES' || code === 'EPERM' || code.startsWith('SQLITE_READONLY')) {
+  if (code === 'EROFS' || code === 'EACCES' || code === 'EPERM' || code.startsWith('SQLITE_READONLY') || code === '25006') {
     return new AppError(503, 'read_only', 'The data folder is read-only at the moment; nothing was saved. Reading still works.', undefined, {
       headers: { 'Retry-After': '60' },
     });

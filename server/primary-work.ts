@@ -35,7 +35,7 @@ export async function sweepExpired(ctx: Expiring): Promise<void> {
 
 export async function startPrimaryWork(db: Db, config: Config, log: Logger, clock: Clock): Promise<PrimaryWork> {
   // At start-up, before any worker writes, what interrupted uploads and approvals left behind goes.
-  const housekeeping = new Housekeeping(db, config.dataDir, config.orphanGraceMs, log);
+  const housekeeping = new Housekeeping(db, config, config.orphanGraceMs, log);
   await housekeeping.startUp();
   const fakeSmtp = config.production ? null : await startFakeSmtp(db, config.smtp.fakePort);
   const mail = new MailSender(db, config.smtp.url ?? fakeSmtp!.url, config.smtp.from, log);

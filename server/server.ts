@@ -41,7 +41,7 @@ export interface StartOptions {
 /** Opens the data folder: checks it is usable, migrates, and seeds the demo outside production. */
 export async function openDataFolder(config: Config, log: Logger): Promise<Db> {
   assertDataFolderUsable(config.dataDir, config.createDataDir);
-  const db = await openDatabase(config.dataDir, { busyTimeoutMs: config.busyTimeoutMs });
+  const db = await openDatabase(config.dataDir, { busyTimeoutMs: config.busyTimeoutMs, url: config.databaseUrl });
   if (config.seedDemo) await seedDemo(db, log);
   return db;
 }

@@ -11,7 +11,7 @@ import { startSigning } from './signing/service';
 
 const config = loadConfig();
 const log = createLogger(config);
-const db = await openDatabase(config.dataDir, { busyTimeoutMs: config.busyTimeoutMs, migrate: false });
+const db = await openDatabase(config.dataDir, { busyTimeoutMs: config.busyTimeoutMs, migrate: false, url: config.databaseUrl });
 const signing = await startSigning(config);
 const http = await serveHttp(config, { db, log, clock: systemClock, signing, kickMail: () => process.send?.(KICK_MAIL) });
 guardProcess(log);

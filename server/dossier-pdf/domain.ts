@@ -1,11 +1,8 @@
 import { createHash } from 'node:crypto';
-import { mkdirSync } from 'node:fs';
-import { readFile, rename, rm, writeFile } from 'node:fs/promises';
-import { join } from 'node:path';
 import type { Knex } from 'knex';
 import type { AppContext } from '../context';
 import { AppError, conflict } from '../errors';
-import { tempFileName } from '../housekeeping/temp-files';
+import { openContentStore, readWhole, type ContentStore } from '../evidence/storage';
 import { buildPdfModel, type PendingDecision } from './build-model';
 import type { DossierPdfModel } from './model';
 import { PdfRenderPool } from './render-pool';
@@ -21,16 +18,13 @@ export interface PreparedDossier {
   discard(): Promise<void>;
 }
 
-export const signedDossierDir = (dataDir: string) => join(dataDir, 'dossiers');
-
-/** Signed dossiers live beside the evidence, one file per SHA-256 under `<dataDir>/dossiers/`. */
+/** Signed dossiers live beside the evidence, one object per SHA-256 (`<dataDir>/dossiers/` or `dossiers/` in the bucket). */
 export class DossierPdfService {
-  private readonly dir: string;
+  private readonly store: ContentStore;
   private readonly pool = new PdfRenderPool();
 
   constructor(private readonly ctx: AppContext) {
-    this.dir = signedDossierDir(ctx.config.dataDir);
-    mkdirSync(this.dir, { recursive: true });
+    this.store = openContentStore(ctx.config, 'dossiers');
   }
 
   /** An unsigned PDF of a revision that is not approved, marked as such on every page. */
@@ -66,7 +60,8 @@ export class DossierPdfService {
       }
       row = await this.ctx.db('signed_dossier').where({ revision_id: revisionId }).first();
     }
-    const pdf = await readFile(join(this.dir, row.storage_key));
+    const pdf = await readWhole(this.store, row.storage_key);
+    if (!pdf) throw new AppError(404, 'file_missing', 'The stored signed dossier is missing; tell the administrator.');
     return { pdf, sha256: row.sha256 };
   }
 
@@ -98,15 +93,12 @@ export class DossierPdfService {
       );
     }
     const sha256 = createHash('sha256').update(pdf).digest('hex');
-    const temp = join(this.dir, tempFileName());
-    const final = join(this.dir, sha256);
-    await writeFile(temp, pdf);
     let placed = false;
     return {
       sha256,
       size: pdf.length,
       commit: async (trx) => {
-        // The row first: it takes the write lock, so the data-folder sweep never sees the file without it.
+        // The row first: it takes the write lock, so the sweep never sees the stored file without it.
         await trx('signed_dossier').insert({
           revision_id: revisionId,
           sha256,
@@ -116,11 +108,10 @@ export class DossierPdfService {
           signer_kind: setup.identity.kind,
           created_at: new Date().toISOString(),
         });
-        await rename(temp, final);
-        placed = true;
+        placed = (await this.store.putBytes(sha256, pdf)).created;
       },
       discard: async () => {
-        await rm(placed ? final : temp, { force: true });
+        if (placed) await this.store.remove(sha256);
       },
     };
   }

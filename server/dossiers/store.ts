@@ -3,6 +3,7 @@ import type { DossierListItem } from '../../shared/schema/api';
 import type { DischargeResult, Requirement } from '../../shared/schema/discharge';
 import type { DossierListQuery, Page } from '../../shared/schema/lists';
 import type { RevisionStatus } from '../../shared/schema/workflow';
+import { dialectOf, type Dialect } from '../db/knex';
 import { decodeCursor, toPage } from '../db/paging';
 import { notFound } from '../errors';
 import { loadDossier, revisionSummaries } from '../revisions/store';
@@ -36,7 +37,7 @@ interface DossierRow {
   latest_verdict: DischargeResult['verdict'] | null;
 }
 
-function whereDossiers(query: Knex.QueryBuilder, filter: DossierListQuery, audience: DossierAudience): Knex.QueryBuilder {
+function whereDossiers(query: Knex.QueryBuilder, filter: DossierListQuery, audience: DossierAudience, dialect: Dialect): Knex.QueryBuilder {
   if (filter.productId !== undefined) query.where('dossier.product_id', filter.productId);
   if (audience.approvedOnly) {
     query.whereExists((seen) => seen.from('revision as seen').whereRaw('seen.dossier_id = dossier.id').where('seen.status', 'approved'));
@@ -55,9 +56,12 @@ function whereDossiers(query: Knex.QueryBuilder, filter: DossierListQuery, audie
   }
   if (filter.q !== undefined) {
     const like = containing(filter.q);
+    // SQLite's LIKE ignores ASCII case; PostgreSQL's ILIKE does the same there.
+    const [op, reference] =
+      dialect === 'pg' ? ['ILIKE', "dossier.requirement->>'reference'"] : ['LIKE', "json_extract(dossier.requirement, '$.reference')"];
     query.whereRaw(
-      `(dossier.title LIKE ? ESCAPE '\\' OR product.name LIKE ? ESCAPE '\\' OR product.model_number LIKE ? ESCAPE '\\'
-        OR json_extract(dossier.requirement, '$.reference') LIKE ? ESCAPE '\\')`,
+      `(dossier.title ${op} ? ESCAPE '\\' OR product.name ${op} ? ESCAPE '\\' OR product.model_number ${op} ? ESCAPE '\\'
+        OR ${reference} ${op} ? ESCAPE '\\')`,
       [like, like, like, like],
     );
   }
@@ -69,7 +73,7 @@ export async function listDossiers(db: Db, filter: DossierListQuery, audience: D
   const listed = db('dossier')
     .join('product', 'product.id', 'dossier.product_id')
     .leftJoin('revision as latest', 'latest.id', db.raw(audience.approvedOnly ? LATEST_APPROVED : LATEST_REVISION));
-  const page = whereDossiers(listed, filter, audience)
+  const page = whereDossiers(listed, filter, audience, dialectOf(db))
     .select(
       'dossier.id',
       'dossier.product_id',
@@ -91,7 +95,7 @@ export async function listDossiers(db: Db, filter: DossierListQuery, audience: D
   const counted = filter.q !== undefined ? db('dossier').join('product', 'product.id', 'dossier.product_id') : db('dossier');
   const [rows, count]: [DossierRow[], { n: number } | undefined] = await Promise.all([
     page,
-    whereDossiers(counted, filter, audience).count({ n: '*' }).first(),
+    whereDossiers(counted, filter, audience, dialectOf(db)).count({ n: '*' }).first(),
   ]);
   return toPage(rows, filter.limit, Number(count?.n ?? 0), (r) => [r.id, r.id], dossierView);
 }

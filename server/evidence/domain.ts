@@ -9,7 +9,7 @@ import { assertCanEdit, assertVersion, refreshDraftResults } from '../revisions/
 import { loadDossier, loadEvidence, loadRevision, type EvidenceRecord } from '../revisions/store';
 import { analyseCaptureFile, WaveformError } from './waveform/reader';
 import { sanitiseFileName, sniffMediaType, type EvidenceKind } from './sniff';
-import type { EvidenceStore, HashedFile } from './storage';
+import type { ContentStore, HashedFile } from './storage';
 import { fileIsReferenced, markFileReleased } from './store';
 
 export const uploadFieldsSchema = z.object({
@@ -52,7 +52,7 @@ export async function assertMayAttach(ctx: AppContext, user: SignedInUser, revis
  */
 export async function attachEvidence(
   ctx: AppContext,
-  store: EvidenceStore,
+  store: ContentStore,
   user: SignedInUser,
   revisionId: number,
   upload: HashedFile & { originalName: string },
@@ -137,7 +137,7 @@ export async function attachEvidence(
     await store.discard(upload.path);
     // A file this upload created and no row refers to is removed again.
     if (placement.created && !(await fileIsReferenced(ctx.db, upload.sha256))) {
-      await store.discard(store.pathOf(upload.sha256));
+      await store.remove(upload.sha256);
     }
     throw err;
   }

@@ -1,5 +1,6 @@
 import contentDisposition from 'content-disposition';
 import { Router, type NextFunction, type Request, type Response } from 'express';
+import { pipeline } from 'node:stream/promises';
 import multer from 'multer';
 import { allow, currentUser } from '../auth/middleware';
 import { assertMaySee } from '../auth/need-to-know';
@@ -8,7 +9,7 @@ import { AppError, notFound, storageFault } from '../errors';
 import { parseId } from '../params';
 import { assertMayAttach, attachEvidence, removeEvidence } from './domain';
 import { servedMediaType } from './sniff';
-import { EvidenceStore, hashingStorage, type HashedFile } from './storage';
+import { hashingStorage, openContentStore, type HashedFile } from './storage';
 
 // Multipart overhead allowed on top of the largest file when judging Content-Length up front.
 const FORM_OVERHEAD = 64 * 1024;
@@ -34,7 +35,7 @@ const asciiFallback = (name: string) =>
 
 export function evidenceRoutes(ctx: AppContext): Router {
   const router = Router();
-  const store = new EvidenceStore(ctx.config.dataDir);
+  const store = openContentStore(ctx.config, 'evidence');
   const maxBytes = Math.max(ctx.config.uploadLimits.waveformBytes, ctx.config.uploadLimits.otherBytes);
   const upload = multer({
     storage: hashingStorage(store),
@@ -92,9 +93,11 @@ export function evidenceRoutes(ctx: AppContext): Router {
     res.setHeader('X-Content-Type-Options', 'nosniff');
     res.setHeader('Content-Security-Policy', "default-src 'none'; sandbox");
     res.setHeader('Content-Disposition', contentDisposition.create(row.original_name, { fallback: asciiFallback(row.original_name) }));
-    res.sendFile(store.pathOf(row.storage_key), (err) => {
-      if (err) next(storageFault(err) ?? new AppError(404, 'file_missing', 'The stored bytes of this evidence are missing; tell the administrator.'));
-    });
+    const stored = await store.open(row.storage_key);
+    if (!stored) throw new AppError(404, 'file_missing', 'The stored bytes of this evidence are missing; tell the administrator.');
+    res.setHeader('Content-Length', String(stored.size));
+    // Streamed from the folder or the bucket as it is sent; a failure half-way cuts the answer off.
+    pipeline(stored.stream, res).catch((err: unknown) => next(storageFault(err) ?? err));
   });
 
   router.delete('/evidence/:id', allow('engineer', 'admin'), async (req, res) => {

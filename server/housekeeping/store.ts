@@ -1,11 +1,13 @@
 import type { Knex } from 'knex';
+import { dialectOf } from '../db/knex';
 
 /**
  * Takes SQLite's write lock at the start of the caller's transaction (a write that changes nothing still
- * takes it), so no upload or approval can commit a row for a file while the sweep decides about it.
+ * takes it), so no upload or approval can commit a row for a file while the sweep decides about it. A
+ * PostgreSQL transaction took the shared write lock when it began (server/db/knex.ts).
  */
 export async function holdWriteLock(trx: Knex.Transaction): Promise<void> {
-  await trx.raw('DELETE FROM evidence_release WHERE 0');
+  if (dialectOf(trx) === 'sqlite') await trx.raw('DELETE FROM evidence_release WHERE 0');
 }
 
 export async function referencedEvidenceFiles(trx: Knex.Transaction): Promise<Set<string>> {

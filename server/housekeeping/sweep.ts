@@ -1,10 +1,8 @@
-import { readdir, rm } from 'node:fs/promises';
-import { join } from 'node:path';
 import type { Logger } from 'pino';
 import { BackgroundLoop } from '../background';
+import type { Config } from '../config';
 import type { Db } from '../db/knex';
-import { signedDossierDir } from '../dossier-pdf/domain';
-import { EvidenceStore, SHA256_NAME } from '../evidence/storage';
+import { openContentStore, type ContentStore } from '../evidence/storage';
 import { fileReleases, forgetReleases, holdWriteLock, referencedEvidenceFiles, referencedSignedDossiers } from './store';
 import { sweepTempFiles } from './temp-files';
 
@@ -18,8 +16,6 @@ export interface SweepReport {
   orphanSignedDossiers: number;
 }
 
-const hashNamed = async (dir: string) => (await readdir(dir).catch(() => [] as string[])).filter((n) => SHA256_NAME.test(n));
-
 /**
  * Keeps the data folder to what the database refers to: temporary files of interrupted uploads and
  * signings, evidence files no row references (after the grace period when a draft released them, at
@@ -28,17 +24,17 @@ const hashNamed = async (dir: string) => (await readdir(dir).catch(() => [] as s
  */
 export class Housekeeping {
   private readonly loop: BackgroundLoop;
-  private readonly evidence: EvidenceStore;
-  private readonly dossiers: string;
+  private readonly evidence: ContentStore;
+  private readonly dossiers: ContentStore;
 
   constructor(
     private readonly db: Db,
-    dataDir: string,
+    config: Pick<Config, 'dataDir' | 'evidenceStore'>,
     private readonly graceMs: number,
     private readonly log: Logger,
   ) {
-    this.evidence = new EvidenceStore(dataDir);
-    this.dossiers = signedDossierDir(dataDir);
+    this.evidence = openContentStore(config, 'evidence');
+    this.dossiers = openContentStore(config, 'dossiers');
     this.loop = new BackgroundLoop('data folder sweep', async () => void (await this.sweep(false)), log, SWEEP_EVERY_MS);
   }
 
@@ -60,9 +56,9 @@ export class Housekeeping {
   }
 
   async sweep(startingUp: boolean, now = Date.now()): Promise<SweepReport> {
-    const temp = await sweepTempFiles([this.evidence.tmpDir, this.dossiers], TEMP_MAX_AGE_MS, startingUp, now);
-    const evidenceFiles = await hashNamed(this.evidence.dir);
-    const signedFiles = await hashNamed(this.dossiers);
+    const temp = await sweepTempFiles([this.evidence.stagingDir, this.dossiers.stagingDir], TEMP_MAX_AGE_MS, startingUp, now);
+    const evidenceFiles = (await this.evidence.list()).map((o) => o.name);
+    const signedFiles = (await this.dossiers.list()).map((o) => o.name);
     const removed = await this.db.transaction(async (trx) => {
       await holdWriteLock(trx);
       const used = await referencedEvidenceFiles(trx);
@@ -70,8 +66,8 @@ export class Housekeeping {
       const signed = await referencedSignedDossiers(trx);
       const orphans = evidenceFiles.filter((f) => !used.has(f) && !(released.has(f) && now - Date.parse(released.get(f)!) < this.graceMs));
       const unsigned = signedFiles.filter((f) => !signed.has(f));
-      for (const f of orphans) await rm(join(this.evidence.dir, f), { force: true });
-      for (const f of unsigned) await rm(join(this.dossiers, f), { force: true });
+      for (const f of orphans) await this.evidence.remove(f);
+      for (const f of unsigned) await this.dossiers.remove(f);
       // Releases of files that are gone, or in use again, have nothing left to time.
       const gone = new Set(orphans);
       const present = new Set(evidenceFiles);

@@ -8,6 +8,34 @@ import { loadConfig, type Config } from '../../server/config';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../server/db/seed';
 import { startServer, type RunningServer, type StartOptions } from '../../server/server';
 import { demoRequirement } from './fixtures';
+import { createDatabase, startPostgres, type PostgresServer } from './postgres';
+import { createBucket, s3Env, startS3, type S3Server } from './s3';
+
+/** VOLTFALL_TEST_BACKEND=pg-s3: PostgreSQL and a bucket instead of the SQLite file and the evidence folder. */
+export const TEST_BACKEND = process.env.VOLTFALL_TEST_BACKEND === 'pg-s3' ? 'pg-s3' : 'sqlite';
+
+// One PostgreSQL and one S3 server per test file (each vitest worker), started on first use.
+let backends: Promise<{ pg: PostgresServer; s3: S3Server }> | null = null;
+
+/** The environment of a server on the pg-s3 back end: its own database and bucket, named after its data folder. */
+async function backendEnv(dataDir: string): Promise<Record<string, string>> {
+  if (TEST_BACKEND === 'sqlite') return {};
+  backends ??= Promise.all([startPostgres(), startS3()]).then(([pg, s3]) => {
+    process.once('exit', () => void pg.stop());
+    return { pg, s3 };
+  });
+  const { pg, s3 } = await backends;
+  const name = `vf-${dataDir
+    .split('/')
+    .pop()!
+    .toLowerCase()
+    .replace(/[^a-z0-9]/g, '')}`.slice(0, 60);
+  await createDatabase(pg, name).catch((err: { code?: string }) => {
+    if (err.code !== '42P04') throw err; // a restart on the same data folder keeps its database
+  });
+  await createBucket(s3.endpoint, name).catch(() => undefined);
+  return { DATABASE_URL: pg.urlOf(name), ...s3Env(s3.endpoint, name) };
+}
 
 export type DemoRole = 'admin' | 'engineer' | 'engineer2' | 'reviewer' | 'viewer';
 
@@ -57,6 +85,7 @@ export async function startTestServer(
       FAKE_SMTP_PORT: '0',
       LOG_LEVEL: 'silent',
       SIGN_IN_LIMIT_PER_15_MIN: '1000',
+      ...(await backendEnv(dataDir)),
       ...env,
     },
     overrides,

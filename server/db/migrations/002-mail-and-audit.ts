@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { createPgGuardFunctions, isPg, pgGuard } from '../guards';
 
 export async function up(knex: Knex): Promise<void> {
   // Messages waiting to be handed to the SMTP relay; a state change and its e-mail commit together.
@@ -33,12 +34,19 @@ export async function up(knex: Knex): Promise<void> {
     t.text('subject_type').notNullable();
     t.text('subject_id').notNullable();
     t.integer('dossier_id');
+    // Text on both databases, never jsonb: the hash chain covers these exact characters.
     t.text('payload').notNullable();
     t.text('created_at').notNullable();
     t.text('prev_hash').notNullable();
     t.text('hash').notNullable();
     t.index(['dossier_id']);
   });
+  if (isPg(knex)) {
+    await createPgGuardFunctions(knex);
+    await pgGuard(knex, 'audit_event_no_update', 'audit_event', 'UPDATE', null, 'audit events are append-only');
+    await pgGuard(knex, 'audit_event_no_delete', 'audit_event', 'DELETE', null, 'audit events are append-only');
+    return;
+  }
   await knex.raw(`CREATE TRIGGER audit_event_no_update BEFORE UPDATE ON audit_event
     BEGIN SELECT RAISE(ABORT, 'audit events are append-only'); END`);
   await knex.raw(`CREATE TRIGGER audit_event_no_delete BEFORE DELETE ON audit_event

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { isPg, jsonColumn, pgContentChanged, pgGuard, pgRevisionStatusGuard, REVISION_CONTENT_COLUMNS } from '../guards';
 
 export async function up(knex: Knex): Promise<void> {
   await knex.schema.createTable('product', (t) => {
@@ -13,7 +14,7 @@ export async function up(knex: Knex): Promise<void> {
     t.increments('id');
     t.integer('product_id').notNullable().references('product.id');
     t.text('title').notNullable();
-    t.text('requirement').notNullable();
+    jsonColumn(knex, t, 'requirement').notNullable();
     t.text('created_by').notNullable().references('user.id');
     t.text('created_at').notNullable();
   });
@@ -22,9 +23,9 @@ export async function up(knex: Knex): Promise<void> {
     t.integer('dossier_id').notNullable().references('dossier.id');
     t.integer('number').notNullable();
     t.text('status').notNullable().defaultTo('draft').checkIn(['draft', 'in_review', 'approved', 'returned']);
-    t.text('design').notNullable();
+    jsonColumn(knex, t, 'design').notNullable();
     t.text('notes').notNullable().defaultTo('');
-    t.text('results').notNullable();
+    jsonColumn(knex, t, 'results').notNullable();
     t.text('engine_version').notNullable();
     t.text('author_id').notNullable().references('user.id');
     t.integer('created_from').references('revision.id');
@@ -39,24 +40,8 @@ export async function up(knex: Knex): Promise<void> {
   await knex.raw(`CREATE UNIQUE INDEX revision_one_draft ON revision(dossier_id) WHERE status = 'draft'`);
   // Frozen means frozen, whatever writes to the file: only a draft's content may change, and the
   // status may only move along draft → in_review → approved | returned.
-  await knex.raw(`CREATE TRIGGER revision_frozen_content BEFORE UPDATE ON revision
-    WHEN OLD.status <> 'draft' AND (NEW.design IS NOT OLD.design OR NEW.notes IS NOT OLD.notes
-      OR NEW.results IS NOT OLD.results OR NEW.engine_version IS NOT OLD.engine_version
-      OR NEW.content_hash IS NOT OLD.content_hash OR NEW.author_id IS NOT OLD.author_id
-      OR NEW.number IS NOT OLD.number OR NEW.dossier_id IS NOT OLD.dossier_id
-      OR NEW.created_from IS NOT OLD.created_from OR NEW.submitted_at IS NOT OLD.submitted_at)
-    BEGIN SELECT RAISE(ABORT, 'revision is frozen: submitted revisions cannot change'); END`);
-  await knex.raw(`CREATE TRIGGER revision_status_flow BEFORE UPDATE OF status ON revision
-    WHEN NOT ((OLD.status = 'draft' AND NEW.status IN ('draft', 'in_review'))
-      OR (OLD.status = 'in_review' AND NEW.status IN ('in_review', 'approved', 'returned'))
-      OR (OLD.status = NEW.status AND OLD.status = 'draft'))
-    BEGIN SELECT RAISE(ABORT, 'revision is frozen: this status change is not allowed'); END`);
-  await knex.raw(`CREATE TRIGGER revision_decided_frozen BEFORE UPDATE ON revision
-    WHEN OLD.status IN ('approved', 'returned')
-    BEGIN SELECT RAISE(ABORT, 'revision is frozen: decided revisions cannot change'); END`);
-  await knex.raw(`CREATE TRIGGER revision_no_delete BEFORE DELETE ON revision
-    WHEN OLD.status <> 'draft'
-    BEGIN SELECT RAISE(ABORT, 'revision is frozen: submitted revisions cannot be deleted'); END`);
+  if (isPg(knex)) await pgRevisionGuards(knex);
+  else await sqliteRevisionGuards(knex);
 
   // One stored file per sha256; a revision's evidence rows point at it, so a new draft
   // references the same bytes instead of copying them.
@@ -69,8 +54,8 @@ export async function up(knex: Knex): Promise<void> {
     t.integer('size').notNullable();
     t.text('sha256').notNullable();
     t.text('storage_key').notNullable();
-    t.text('analysis');
-    t.text('analysis_options');
+    jsonColumn(knex, t, 'analysis');
+    jsonColumn(knex, t, 'analysis_options');
     t.text('uploaded_by').notNullable().references('user.id');
     t.text('uploaded_at').notNullable();
     t.index(['revision_id']);
@@ -81,6 +66,11 @@ export async function up(knex: Knex): Promise<void> {
     ['UPDATE', 'OLD'],
     ['DELETE', 'OLD'],
   ] as const) {
+    if (isPg(knex)) {
+      const name = `evidence_frozen_${event.toLowerCase()}`;
+      await pgRevisionStatusGuard(knex, name, 'evidence', event, 'draft', 'revision is frozen: its evidence list cannot change');
+      continue;
+    }
     await knex.raw(`CREATE TRIGGER evidence_frozen_${event.toLowerCase()} BEFORE ${event} ON evidence
       WHEN (SELECT status FROM revision WHERE id = ${row}.revision_id) <> 'draft'
       BEGIN SELECT RAISE(ABORT, 'revision is frozen: its evidence list cannot change'); END`);
@@ -96,10 +86,7 @@ export async function up(knex: Knex): Promise<void> {
     t.text('created_at').notNullable();
     t.unique(['revision_id']);
   });
-  await knex.raw(`CREATE TRIGGER review_decision_no_update BEFORE UPDATE ON review_decision
-    BEGIN SELECT RAISE(ABORT, 'review decisions are final'); END`);
-  await knex.raw(`CREATE TRIGGER review_decision_no_delete BEFORE DELETE ON review_decision
-    BEGIN SELECT RAISE(ABORT, 'review decisions are final'); END`);
+  await refuseChanges(knex, 'review_decision', 'review decisions are final');
 
   // Review comments that are not decisions (questions while in review).
   await knex.schema.createTable('review_comment', (t) => {
@@ -121,14 +108,80 @@ export async function up(knex: Knex): Promise<void> {
     t.text('signer_kind').notNullable();
     t.text('created_at').notNullable();
   });
-  await knex.raw(`CREATE TRIGGER signed_dossier_no_update BEFORE UPDATE ON signed_dossier
-    BEGIN SELECT RAISE(ABORT, 'signed dossiers are final'); END`);
-  await knex.raw(`CREATE TRIGGER signed_dossier_no_delete BEFORE DELETE ON signed_dossier
-    BEGIN SELECT RAISE(ABORT, 'signed dossiers are final'); END`);
+  await refuseChanges(knex, 'signed_dossier', 'signed dossiers are final');
 }
 
 export async function down(knex: Knex): Promise<void> {
   for (const table of ['signed_dossier', 'review_comment', 'review_decision', 'evidence', 'revision', 'dossier', 'product']) {
     await knex.schema.dropTable(table);
+  }
+}
+
+async function sqliteRevisionGuards(knex: Knex): Promise<void> {
+  await knex.raw(`CREATE TRIGGER revision_frozen_content BEFORE UPDATE ON revision
+    WHEN OLD.status <> 'draft' AND (NEW.design IS NOT OLD.design OR NEW.notes IS NOT OLD.notes
+      OR NEW.results IS NOT OLD.results OR NEW.engine_version IS NOT OLD.engine_version
+      OR NEW.content_hash IS NOT OLD.content_hash OR NEW.author_id IS NOT OLD.author_id
+      OR NEW.number IS NOT OLD.number OR NEW.dossier_id IS NOT OLD.dossier_id
+      OR NEW.created_from IS NOT OLD.created_from OR NEW.submitted_at IS NOT OLD.submitted_at)
+    BEGIN SELECT RAISE(ABORT, 'revision is frozen: submitted revisions cannot change'); END`);
+  await knex.raw(`CREATE TRIGGER revision_status_flow BEFORE UPDATE OF status ON revision
+    WHEN NOT ((OLD.status = 'draft' AND NEW.status IN ('draft', 'in_review'))
+      OR (OLD.status = 'in_review' AND NEW.status IN ('in_review', 'approved', 'returned'))
+      OR (OLD.status = NEW.status AND OLD.status = 'draft'))
+    BEGIN SELECT RAISE(ABORT, 'revision is frozen: this status change is not allowed'); END`);
+  await knex.raw(`CREATE TRIGGER revision_decided_frozen BEFORE UPDATE ON revision
+    WHEN OLD.status IN ('approved', 'returned')
+    BEGIN SELECT RAISE(ABORT, 'revision is frozen: decided revisions cannot change'); END`);
+  await knex.raw(`CREATE TRIGGER revision_no_delete BEFORE DELETE ON revision
+    WHEN OLD.status <> 'draft'
+    BEGIN SELECT RAISE(ABORT, 'revision is frozen: submitted revisions cannot be deleted'); END`);
+}
+
+/** The revision guards above, in PostgreSQL's terms. */
+async function pgRevisionGuards(knex: Knex): Promise<void> {
+  await pgGuard(
+    knex,
+    'revision_frozen_content',
+    'revision',
+    'UPDATE',
+    `OLD.status <> 'draft' AND (${pgContentChanged(REVISION_CONTENT_COLUMNS)})`,
+    'revision is frozen: submitted revisions cannot change',
+  );
+  await pgGuard(
+    knex,
+    'revision_status_flow',
+    'revision',
+    'UPDATE OF status',
+    `NOT ((OLD.status = 'draft' AND NEW.status IN ('draft', 'in_review'))
+      OR (OLD.status = 'in_review' AND NEW.status IN ('in_review', 'approved', 'returned')))`,
+    'revision is frozen: this status change is not allowed',
+  );
+  await pgGuard(
+    knex,
+    'revision_decided_frozen',
+    'revision',
+    'UPDATE',
+    `OLD.status IN ('approved', 'returned')`,
+    'revision is frozen: decided revisions cannot change',
+  );
+  await pgGuard(
+    knex,
+    'revision_no_delete',
+    'revision',
+    'DELETE',
+    `OLD.status <> 'draft'`,
+    'revision is frozen: submitted revisions cannot be deleted',
+  );
+}
+
+/** Rows of `table` can be added, never changed or removed. */
+async function refuseChanges(knex: Knex, table: string, message: string): Promise<void> {
+  for (const event of ['UPDATE', 'DELETE'] as const) {
+    const name = `${table}_no_${event.toLowerCase()}`;
+    if (isPg(knex)) await pgGuard(knex, name, table, event, null, message);
+    else
+      await knex.raw(`CREATE TRIGGER ${name} BEFORE ${event} ON ${table}
+      BEGIN SELECT RAISE(ABORT, '${message}'); END`);
   }
 }
