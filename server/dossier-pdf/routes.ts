@@ -5,16 +5,13 @@ import type { AppContext } from '../context';
 import { notFound } from '../errors';
 import { parseId } from '../params';
 import type { DossierPdfService } from './domain';
+import { findPdfSubject } from './store';
 
 export function dossierPdfRoutes(ctx: AppContext, service: DossierPdfService): Router {
   const router = Router();
   router.get('/revisions/:id/dossier.pdf', allow(), async (req, res) => {
     const id = parseId(req.params.id);
-    const rev = await ctx
-      .db('revision')
-      .join('dossier', 'dossier.id', 'revision.dossier_id')
-      .where('revision.id', id)
-      .first('revision.status', 'revision.number', 'dossier.id as dossier_id');
+    const rev = await findPdfSubject(ctx.db, id);
     if (!rev) throw notFound('Revision');
     assertMaySee(currentUser(req), rev.status);
     const name = `voltfall-dossier-${rev.dossier_id}-rev${rev.number}${rev.status === 'approved' ? '-signed' : '-not-approved'}.pdf`;

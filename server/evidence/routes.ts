@@ -5,6 +5,7 @@ import multer from 'multer';
 import { allow, currentUser } from '../auth/middleware';
 import { assertMaySee } from '../auth/need-to-know';
 import type { AppContext } from '../context';
+import { findEvidenceWithStatus } from './store';
 import { AppError, notFound, storageFault } from '../errors';
 import { parseId } from '../params';
 import { assertMayAttach, attachEvidence, removeEvidence } from './domain';
@@ -80,11 +81,7 @@ export function evidenceRoutes(ctx: AppContext): Router {
   });
 
   router.get('/evidence/:id/file', allow(), async (req, res, next) => {
-    const row = await ctx
-      .db('evidence')
-      .join('revision', 'revision.id', 'evidence.revision_id')
-      .where('evidence.id', parseId(req.params.id))
-      .first('evidence.*', 'revision.status as revision_status');
+    const row = await findEvidenceWithStatus(ctx.db, parseId(req.params.id));
     if (!row) throw notFound('Evidence');
     assertMaySee(currentUser(req), row.revision_status, 'Evidence');
     // Always a download, typed from the bytes sniffed at upload (never from the name), and never

@@ -11,3 +11,11 @@ export async function fileIsReferenced(db: Db, storageKey: string): Promise<bool
 export async function markFileReleased(db: Db, storageKey: string): Promise<void> {
   await db('evidence_release').insert({ sha256: storageKey, released_at: new Date().toISOString() }).onConflict('sha256').merge();
 }
+
+/** An evidence row with the status of its revision, for deciding who may download it. */
+export function findEvidenceWithStatus(db: Db, id: number) {
+  return db('evidence')
+    .join('revision', 'revision.id', 'evidence.revision_id')
+    .where('evidence.id', id)
+    .first('evidence.*', 'revision.status as revision_status');
+}

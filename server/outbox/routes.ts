@@ -1,18 +1,14 @@
 import { Router } from 'express';
 import { allow } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { queuedMail, receivedMail } from './store';
 
 /** Messages the local fake SMTP server received, and what is still queued (never mounted in production). */
 export function outboxRoutes(ctx: AppContext): Router {
   const router = Router();
   router.get('/', allow('admin'), async (_req, res) => {
-    const received = await ctx.db('mail_outbox').orderBy('id', 'desc').limit(200);
-    const queued = await ctx
-      .db('mail_queue')
-      .whereNot({ status: 'sent' })
-      .orderBy('id', 'desc')
-      .limit(200)
-      .select('id', 'to', 'subject', 'status', 'attempts', 'last_error', 'next_attempt_at');
+    const received = await receivedMail(ctx.db);
+    const queued = await queuedMail(ctx.db);
     res.json({
       messages: received.map((m) => ({
         id: m.id,

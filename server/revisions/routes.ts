@@ -7,7 +7,7 @@ import { AppError, validationError } from '../errors';
 import { parseId } from '../params';
 import { diffRevisions } from './diff';
 import { submitRevision, updateDraft } from './domain';
-import { loadDossier, loadReturnAnswered, loadRevision } from './store';
+import { earlierRevisions, loadDossier, loadReturnAnswered, loadRevision, siblingRevisions } from './store';
 
 export function revisionRoutes(ctx: AppContext): Router {
   const router = Router();
@@ -18,11 +18,7 @@ export function revisionRoutes(ctx: AppContext): Router {
     const rev = await loadRevision(db, parseId(req.params.id));
     assertMaySee(user, rev.status);
     const dossier = await loadDossier(db, rev.dossierId);
-    const siblings = await visibleRevisions(
-      user,
-      db('revision').where({ dossier_id: rev.dossierId }).orderBy('number').select('id', 'number', 'status'),
-      'status',
-    );
+    const siblings = await visibleRevisions(user, siblingRevisions(db, rev.dossierId), 'status');
     // A viewer sees approved work only, so never the return a draft answers.
     const answersReturn = user.role === 'viewer' ? null : await loadReturnAnswered(db, rev);
     res.json({ ...rev, dossier, siblings, answersReturn });
@@ -53,11 +49,7 @@ export function revisionRoutes(ctx: AppContext): Router {
     let againstId: number | null = req.query.against === undefined ? current.createdFrom : parseId(req.query.against, 'against');
     if (req.query.against === undefined && againstId !== null && !maySee(user, (await loadRevision(db, againstId)).status)) againstId = null;
     if (againstId === null) {
-      const previous = await visibleRevisions(
-        user,
-        db('revision').where({ dossier_id: current.dossierId }).where('number', '<', current.number).orderBy('number', 'desc'),
-        'status',
-      ).first('id');
+      const previous = await visibleRevisions(user, earlierRevisions(db, current.dossierId, current.number), 'status').first('id');
       againstId = previous?.id ?? null;
     }
     if (againstId === null) throw new AppError(404, 'not_found', 'This is the first revision; there is nothing to compare it with.');

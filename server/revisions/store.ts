@@ -297,3 +297,11 @@ export function revisionContentHash(rev: Pick<Revision, 'dossierId' | 'number' |
   });
   return createHash('sha256').update(JSON.stringify(material)).digest('hex');
 }
+
+/** The revisions of a dossier, oldest first, as the revision screen lists them (filter with visibleRevisions). */
+export const siblingRevisions = (db: Db, dossierId: number) =>
+  db('revision').where({ dossier_id: dossierId }).orderBy('number').select('id', 'number', 'status');
+
+/** The revisions of a dossier before `number`, newest first (filter with visibleRevisions). */
+export const earlierRevisions = (db: Db, dossierId: number, number: number) =>
+  db('revision').where({ dossier_id: dossierId }).where('number', '<', number).orderBy('number', 'desc');
