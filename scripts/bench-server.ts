@@ -254,7 +254,7 @@ try {
   console.log(`\n${SESSIONS} sessions mixing reads and writes for ${MIXED_SECONDS} s`);
   const hash = await hashPassword(DEMO_PASSWORD);
   const now = new Date().toISOString();
-  const sessions: Array<{ cookie: string; draftId: number; sent: number; acked: number }> = [];
+  const sessions: Array<{ cookie: string; draftId: number; version: number; sent: number; acked: number }> = [];
   for (let i = 0; i < SESSIONS; i += 1) {
     const id = randomUUID();
     await db('user').insert({ id, email: `bench-${i}@fennel.test`, name: `Bench ${i}`, role: 'engineer', password_hash: hash, created_at: now });
@@ -267,7 +267,7 @@ try {
       body: JSON.stringify({ productId: product.id, title: `Session ${i}`, requirement: demoRequirement }),
     });
     const dossier = (await res.json()) as { revisions: Array<{ id: number }> };
-    sessions[i] = { cookie: c, draftId: dossier.revisions[0].id, sent: 0, acked: 0 };
+    sessions[i] = { cookie: c, draftId: dossier.revisions[0].id, version: 0, sent: 0, acked: 0 };
   };
   for (let i = 0; i < SESSIONS; i += 10) await Promise.all(Array.from({ length: 10 }, (_, k) => draftOf(i + k)));
 
@@ -278,8 +278,11 @@ try {
   // autocannon builds each connection's first request before setupClient runs; that one is rebuilt there.
   const sessionOf = (context: object) => sessions[(context as Partial<Ctx>).index ?? 0];
   const as = (req: autocannon.Request, context: object) => ({ ...req, headers: { ...headers, cookie: sessionOf(context).cookie } });
-  // The body of a save; once drafts carry `version`, add it here from the last revision read.
-  const draftPatch = (s: (typeof sessions)[number]) => ({ notes: `write ${s.sent}`, design: demoDesign });
+  // A save carries the version its session last read (each session edits its own draft, so none is stale).
+  const draftPatch = (s: (typeof sessions)[number]) => ({ version: s.version, notes: `write ${s.sent}`, design: demoDesign });
+  const keepVersion = (status: number, body: string, c: object) => {
+    if (status === 200) sessionOf(c).version = (JSON.parse(body) as { version: number }).version;
+  };
   const mixed = await run({
     url: base,
     connections: SESSIONS,
@@ -292,7 +295,7 @@ try {
       iterator.rebuildRequest();
     },
     requests: [
-      { method: 'GET', setupRequest: (req, c) => ({ ...as(req, c), path: `/api/revisions/${sessionOf(c).draftId}` }) },
+      { method: 'GET', setupRequest: (req, c) => ({ ...as(req, c), path: `/api/revisions/${sessionOf(c).draftId}` }), onResponse: keepVersion },
       { method: 'GET', path: '/api/dossiers', setupRequest: as },
       {
         method: 'PATCH',
@@ -305,6 +308,7 @@ try {
           const s = sessionOf(c);
           const written = Number(/write (\d+)/.exec(body)?.[1] ?? 0);
           if (status === 200 && written > s.acked) s.acked = written;
+          keepVersion(status, body, c);
         },
       },
       { method: 'GET', path: '/api/overview', setupRequest: as },
