@@ -8,7 +8,7 @@ import { Button } from './ui/button';
 import { Card } from './ui/card';
 import { Choice } from './ui/choice';
 import { Message } from './ui/message';
-import { TextField } from './ui/text-field';
+import { FormTextField } from './ui/form-text-field';
 
 export const roleOptions = ROLE_NAMES.map((r) => ({ value: r, label: r[0].toUpperCase() + r.slice(1) }));
 
@@ -23,27 +23,15 @@ export function InviteForm() {
   return (
     <Card title="Invite someone">
       <View style={styles.row}>
-        <Controller
-          control={control}
-          name="name"
-          render={({ field }) => (
-            <TextField label="Name" testID="invite-name" value={field.value} onChangeText={field.onChange} error={formState.errors.name?.message} />
-          )}
-        />
-        <Controller
+        <FormTextField control={control} name="name" label="Name" testID="invite-name" error={formState.errors.name?.message} />
+        <FormTextField
           control={control}
           name="email"
-          render={({ field }) => (
-            <TextField
-              label="E-mail"
-              testID="invite-email"
-              autoCapitalize="none"
-              keyboardType="email-address"
-              value={field.value}
-              onChangeText={field.onChange}
-              error={formState.errors.email?.message}
-            />
-          )}
+          label="E-mail"
+          testID="invite-email"
+          autoCapitalize="none"
+          keyboardType="email-address"
+          error={formState.errors.email?.message}
         />
       </View>
       <Controller

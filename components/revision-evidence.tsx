@@ -16,7 +16,7 @@ import { Card } from './ui/card';
 import { Choice } from './ui/choice';
 import { ConfirmDialog } from './ui/confirm-dialog';
 import { Message } from './ui/message';
-import { TextField } from './ui/text-field';
+import { TextFields, type TextFieldSpec } from './ui/text-fields';
 
 const KINDS: Array<{ value: EvidenceKind; label: string }> = [
   { value: 'waveform', label: 'Scope capture (CSV/TXT)' },
@@ -37,7 +37,7 @@ const PICKER_TYPES: Record<EvidenceKind, string[]> = {
 type CaptureTexts = { channel: string; markerChannel: string; t0: string; scale: string };
 
 /** How to read a scope capture, as typed with the upload; each may stay empty. */
-const CAPTURE_FIELDS: ReadonlyArray<{ key: keyof CaptureTexts; label: string; testID: string; placeholder: string; hint: string }> = [
+const CAPTURE_FIELDS: ReadonlyArray<TextFieldSpec<keyof CaptureTexts>> = [
   {
     key: 'channel',
     label: 'Voltage channel (optional)',
@@ -107,20 +107,9 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
         <Card title="Add evidence">
           <Choice label="Kind" testID="evidence-kind" options={KINDS} value={kind} onChange={setKind} />
           {kind === 'waveform' ? (
-            <View style={styles.fields}>
-              {CAPTURE_FIELDS.map((field) => (
-                <TextField
-                  key={field.key}
-                  label={field.label}
-                  testID={field.testID}
-                  placeholder={field.placeholder}
-                  value={capture[field.key]}
-                  onChangeText={(text) => setCapture({ ...capture, [field.key]: text })}
-                  hint={field.hint}
-                />
-              ))}
+            <TextFields fields={CAPTURE_FIELDS} value={capture} onChange={setCapture}>
               <ProbeResistanceField entry={probe} onChange={setProbe} />
-            </View>
+            </TextFields>
           ) : null}
           {upload.progress !== null ? (
             <View style={styles.progress} testID="upload-progress">
@@ -269,7 +258,6 @@ function MeasuredFigure({ revision, evidenceId }: { revision: Revision; evidence
 const styles = StyleSheet.create({
   wrap: { gap: space.lg },
   button: { alignSelf: 'flex-start' },
-  fields: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   hash: { fontSize: 11, color: colors.inkMuted },
   analysis: { gap: space.xs, backgroundColor: colors.paper, padding: space.md, borderRadius: radius.md },
   strong: { fontFamily: fonts.semibold },

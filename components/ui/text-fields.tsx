@@ -1,3 +1,4 @@
+import type { ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { space } from '../../constants/theme';
 import { TextField } from './text-field';
@@ -17,10 +18,12 @@ interface Props<K extends string> {
   onChange: (next: Record<K, string>) => void;
   /** The problem to show under a field, if any. */
   errorOf?: (key: K) => string | undefined;
+  /** Further fields in the same row, after these. */
+  children?: ReactNode;
 }
 
 /** A row of text fields (wrapping on a narrow screen), one per spec, editing one record of texts. */
-export function TextFields<K extends string>({ fields, value, onChange, errorOf }: Props<K>) {
+export function TextFields<K extends string>({ fields, value, onChange, errorOf, children }: Props<K>) {
   return (
     <View style={styles.row}>
       {fields.map((field) => (
@@ -35,6 +38,7 @@ export function TextFields<K extends string>({ fields, value, onChange, errorOf 
           error={errorOf?.(field.key)}
         />
       ))}
+      {children}
     </View>
   );
 }
