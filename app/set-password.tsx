@@ -1,13 +1,13 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { Link, useLocalSearchParams } from 'expo-router';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { Text, View } from 'react-native';
 import { z } from 'zod';
 import { passwordSchema } from '../shared/schema/auth';
 import { AuthPanel, authStyles } from '../components/auth-panel';
 import { Button } from '../components/ui/button';
 import { Message } from '../components/ui/message';
-import { TextField } from '../components/ui/text-field';
+import { FormTextField } from '../components/ui/form-text-field';
 import { space, type } from '../constants/theme';
 import { ApiError } from '../hooks/api';
 import { useInvite, useSetPassword } from '../hooks/use-auth';
@@ -51,35 +51,23 @@ export default function SetPasswordScreen() {
             : `Welcome, ${invite.data.name}. Choose a password for ${invite.data.email}`}{' '}
           (at least 12 characters; several unrelated words work well). Setting it signs you out everywhere else.
         </Text>
-        <Controller
+        <FormTextField
           control={control}
           name="password"
-          render={({ field }) => (
-            <TextField
-              label="New password"
-              testID="set-password-new"
-              secureTextEntry
-              autoComplete="new-password"
-              value={field.value}
-              onChangeText={field.onChange}
-              error={formState.errors.password?.message ?? serverPasswordError}
-            />
-          )}
+          label="New password"
+          testID="set-password-new"
+          secureTextEntry
+          autoComplete="new-password"
+          error={formState.errors.password?.message ?? serverPasswordError}
         />
-        <Controller
+        <FormTextField
           control={control}
           name="repeat"
-          render={({ field }) => (
-            <TextField
-              label="Repeat it"
-              testID="set-password-repeat"
-              secureTextEntry
-              autoComplete="new-password"
-              value={field.value}
-              onChangeText={field.onChange}
-              error={formState.errors.repeat?.message}
-            />
-          )}
+          label="Repeat it"
+          testID="set-password-repeat"
+          secureTextEntry
+          autoComplete="new-password"
+          error={formState.errors.repeat?.message}
         />
         {setPassword.error && !serverPasswordError ? <Message tone="error" text={setPassword.error.message} /> : null}
         <Button label="Set password" testID="set-password-submit" onPress={submit} busy={setPassword.isPending} />

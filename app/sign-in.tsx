@@ -1,12 +1,12 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { Link, Redirect, useRouter } from 'expo-router';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { Text } from 'react-native';
 import { signInSchema, type SignInInput } from '../shared/schema/auth';
 import { AuthPanel, authStyles, EmailField } from '../components/auth-panel';
 import { Button } from '../components/ui/button';
 import { Message } from '../components/ui/message';
-import { TextField } from '../components/ui/text-field';
+import { FormTextField } from '../components/ui/form-text-field';
 import { CautionLine } from '../components/caution-line';
 import { type } from '../constants/theme';
 import { useSignIn } from '../hooks/use-auth';
@@ -27,22 +27,15 @@ export default function SignInScreen() {
     <AuthPanel testID="sign-in-screen" after={<CautionLine />}>
       <Text style={type.small}>Discharge and snubber evidence, reviewed and signed.</Text>
       <EmailField control={control} name="email" testID="sign-in-email" error={formState.errors.email?.message} />
-      <Controller
+      <FormTextField
         control={control}
         name="password"
-        render={({ field }) => (
-          <TextField
-            label="Password"
-            testID="sign-in-password"
-            secureTextEntry
-            autoComplete="current-password"
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            onSubmitEditing={submit}
-            error={formState.errors.password?.message}
-          />
-        )}
+        label="Password"
+        testID="sign-in-password"
+        secureTextEntry
+        autoComplete="current-password"
+        onSubmitEditing={submit}
+        error={formState.errors.password?.message}
       />
       {signIn.error ? <Message tone="error" text={signIn.error.message} testID="sign-in-error" /> : null}
       <Button label="Sign in" testID="sign-in-submit" onPress={submit} busy={signIn.isPending} />

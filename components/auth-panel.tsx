@@ -1,8 +1,8 @@
 import type { ReactNode } from 'react';
-import { Controller, type Control, type FieldValues, type Path } from 'react-hook-form';
+import { type Control, type FieldValues, type Path } from 'react-hook-form';
 import { ScrollView, StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, radius, space } from '../constants/theme';
-import { TextField } from './ui/text-field';
+import { FormTextField } from './ui/form-text-field';
 
 /** The signed-out pages (sign-in, forgot password, choosing a password): one centred panel under the product name. */
 export function AuthPanel({ testID, children, after }: { testID: string; children: ReactNode; after?: ReactNode }) {
@@ -32,23 +32,16 @@ export function EmailField<T extends FieldValues>({
   onSubmit?: () => void;
 }) {
   return (
-    <Controller
+    <FormTextField
       control={control}
       name={name}
-      render={({ field }) => (
-        <TextField
-          label="E-mail"
-          testID={testID}
-          autoComplete="email"
-          keyboardType="email-address"
-          autoCapitalize="none"
-          value={field.value}
-          onChangeText={field.onChange}
-          onBlur={field.onBlur}
-          onSubmitEditing={onSubmit}
-          error={error}
-        />
-      )}
+      label="E-mail"
+      testID={testID}
+      autoComplete="email"
+      keyboardType="email-address"
+      autoCapitalize="none"
+      onSubmitEditing={onSubmit}
+      error={error}
     />
   );
 }

@@ -1,7 +1,8 @@
 import { useState, type ReactNode } from 'react';
 import { StyleSheet, Text, View, type LayoutChangeEvent } from 'react-native';
 import { colors, radius, space, type } from '../constants/theme';
-import { ACTIVE_FIELDS, DESIGN_GROUPS, formLabel, getPath, type FieldKind, type FieldSpec } from '../shared/design-fields';
+import { formLabel, getPath } from '../shared/design-fields';
+import { ACTIVE_FIELDS, DESIGN_GROUPS, type FieldKind, type FieldSpec } from '../shared/schema/fields';
 import { busFromMains } from '../shared/engine';
 import type { DesignDraft } from '../shared/schema/discharge';
 import { formatQuantity } from '../shared/units';

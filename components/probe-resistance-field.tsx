@@ -1,6 +1,6 @@
 import { StyleSheet, Text, View } from 'react-native';
 import { space, type } from '../constants/theme';
-import type { FieldKind } from '../shared/design-fields';
+import type { FieldKind } from '../shared/schema/fields';
 import { Button } from './ui/button';
 import { QuantityField } from './ui/quantity-field';
 

@@ -16,7 +16,7 @@ import { Card } from './ui/card';
 import { Choice } from './ui/choice';
 import { ConfirmDialog } from './ui/confirm-dialog';
 import { Message } from './ui/message';
-import { TextField } from './ui/text-field';
+import { TextFields, type TextFieldSpec } from './ui/text-fields';
 
 const KINDS: Array<{ value: EvidenceKind; label: string }> = [
   { value: 'waveform', label: 'Scope capture (CSV/TXT)' },
@@ -34,13 +34,41 @@ const PICKER_TYPES: Record<EvidenceKind, string[]> = {
   other: ['*/*'],
 };
 
+type CaptureTexts = { channel: string; markerChannel: string; t0: string; scale: string };
+
+/** How to read a scope capture, as typed with the upload; each may stay empty. */
+const CAPTURE_FIELDS: ReadonlyArray<TextFieldSpec<keyof CaptureTexts>> = [
+  {
+    key: 'channel',
+    label: 'Voltage channel (optional)',
+    testID: 'capture-channel',
+    placeholder: 'first channel',
+    hint: 'Column name or 0-based index',
+  },
+  {
+    key: 'markerChannel',
+    label: 'Disconnect marker channel (optional)',
+    testID: 'capture-marker',
+    placeholder: 'none',
+    hint: 'Its edge marks the disconnect instant',
+  },
+  { key: 't0', label: 'Disconnect instant t0 (optional, s)', testID: 'capture-t0', placeholder: 'detected', hint: "On the capture's own time axis" },
+  {
+    key: 'scale',
+    label: 'Voltage scale (optional, ×)',
+    testID: 'capture-scale',
+    placeholder: '1',
+    hint: 'For probe-side volts: 100 for a 100:1 probe',
+  },
+];
+
 const bytes = (n: number) => (n >= 1024 * 1024 ? `${(n / 1024 / 1024).toFixed(1)} MB` : n >= 1024 ? `${(n / 1024).toFixed(0)} kB` : `${n} B`);
 
 /** The Evidence tab: files with their hashes, waveform analyses, and the measured-versus-predicted chart. */
 export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me }) {
   const editable = revision.status === 'draft' && (revision.author.id === me.id || me.role === 'admin');
   const [kind, setKind] = useState<EvidenceKind>('waveform');
-  const [capture, setCapture] = useState({ channel: '', markerChannel: '', t0: '', scale: '' });
+  const [capture, setCapture] = useState<CaptureTexts>({ channel: '', markerChannel: '', t0: '', scale: '' });
   const [probe, setProbe] = useState<ProbeEntry>({ value: null, invalid: false });
   const upload = useUploadEvidence(revision.id, revision.dossierId);
   const remove = useRemoveEvidence(revision.id);
@@ -79,41 +107,9 @@ export function RevisionEvidence({ revision, me }: { revision: Revision; me: Me 
         <Card title="Add evidence">
           <Choice label="Kind" testID="evidence-kind" options={KINDS} value={kind} onChange={setKind} />
           {kind === 'waveform' ? (
-            <View style={styles.fields}>
-              <TextField
-                label="Voltage channel (optional)"
-                testID="capture-channel"
-                placeholder="first channel"
-                value={capture.channel}
-                onChangeText={(channel) => setCapture({ ...capture, channel })}
-                hint="Column name or 0-based index"
-              />
-              <TextField
-                label="Disconnect marker channel (optional)"
-                testID="capture-marker"
-                placeholder="none"
-                value={capture.markerChannel}
-                onChangeText={(markerChannel) => setCapture({ ...capture, markerChannel })}
-                hint="Its edge marks the disconnect instant"
-              />
-              <TextField
-                label="Disconnect instant t0 (optional, s)"
-                testID="capture-t0"
-                placeholder="detected"
-                value={capture.t0}
-                onChangeText={(t0) => setCapture({ ...capture, t0 })}
-                hint="On the capture's own time axis"
-              />
-              <TextField
-                label="Voltage scale (optional, ×)"
-                testID="capture-scale"
-                placeholder="1"
-                value={capture.scale}
-                onChangeText={(scale) => setCapture({ ...capture, scale })}
-                hint="For probe-side volts: 100 for a 100:1 probe"
-              />
+            <TextFields fields={CAPTURE_FIELDS} value={capture} onChange={setCapture}>
               <ProbeResistanceField entry={probe} onChange={setProbe} />
-            </View>
+            </TextFields>
           ) : null}
           {upload.progress !== null ? (
             <View style={styles.progress} testID="upload-progress">
@@ -262,7 +258,6 @@ function MeasuredFigure({ revision, evidenceId }: { revision: Revision; evidence
 const styles = StyleSheet.create({
   wrap: { gap: space.lg },
   button: { alignSelf: 'flex-start' },
-  fields: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   hash: { fontSize: 11, color: colors.inkMuted },
   analysis: { gap: space.xs, backgroundColor: colors.paper, padding: space.md, borderRadius: radius.md },
   strong: { fontFamily: fonts.semibold },

@@ -1,6 +1,6 @@
 import type { RingingSizing } from '../shared/engine/snubber';
 import type { RingingInputRaw } from '../shared/schema/snubber';
-import type { SnubberDraft } from './snubber-list-editor';
+import type { SnubberDraft } from '../shared/schema/snubber';
 
 // A snubber sized on the sizing screen, on its way to one draft's snubber list. The draft's Design tab
 // takes it when it opens, adds it to the list and saves it through its own save, so the draft's usual

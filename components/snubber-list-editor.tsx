@@ -1,17 +1,19 @@
 import { useRef } from 'react';
 import { StyleSheet, Text, View } from 'react-native';
 import { colors, radius, space, type } from '../constants/theme';
-import {
-  SNUBBER_KIND_FIELDS,
-  SNUBBER_KIND_WORDS,
-  SNUBBER_OPERATING_FIELDS,
-  SNUBBER_PART_FIELDS,
-  type SnubberFieldSpec,
-  type SnubberNumericKey,
-} from '../shared/design-fields';
 import { snubberChecks } from '../shared/engine/snubber';
 import type { Check } from '../shared/schema/discharge';
-import { snubberSchema, type SnubberKind } from '../shared/schema/snubber';
+import {
+  SNUBBER_FIELDS,
+  SNUBBER_KIND_KEYS,
+  SNUBBER_KIND_WORDS,
+  SNUBBER_OTHER_FIELDS,
+  snubberFieldsOf,
+  snubberFieldWords,
+  snubberValue,
+  type SnubberFieldSpec,
+} from '../shared/schema/fields';
+import { snubberSchema, type SnubberDraft, type SnubberKind } from '../shared/schema/snubber';
 import { CheckCard } from './check-card';
 import { Badge } from './ui/badge';
 import { Button } from './ui/button';
@@ -19,19 +21,6 @@ import { Choice } from './ui/choice';
 import { Message } from './ui/message';
 import { QuantityField } from './ui/quantity-field';
 import { TextField } from './ui/text-field';
-
-type NumericKey = SnubberNumericKey;
-
-/**
- * A snubber as it is being typed: the kind is always set, every other field may be missing, and a
- * number is null while its text is empty or unreadable. A complete `Snubber` is one of these.
- */
-export type SnubberDraft = {
-  kind: SnubberKind;
-  name?: string | null;
-  location?: string | null;
-  accessible?: boolean | null;
-} & { [K in NumericKey]?: number | null };
 
 export interface SnubberFieldProblem {
   /** Dotted path from the API, e.g. "design.snubbers.0.resistance". */
@@ -49,23 +38,12 @@ interface Props {
   serverErrors?: readonly SnubberFieldProblem[];
 }
 
-type NumericSpec = SnubberFieldSpec;
-
-const PARTS = SNUBBER_PART_FIELDS;
-const OPERATING = SNUBBER_OPERATING_FIELDS;
-
-const EXTRA_NOTES: Record<SnubberKind, string> = {
+const KIND_NOTES: Record<SnubberKind, string> = {
   rc: 'Loop parasitics for the damping check, e.g. from the snubber sizing helper; C_par may stay empty.',
   'rcd-turnoff': 'For the capacitor size and the reset time.',
   'rcd-clamp': 'Leakage data give the settled clamp voltage; without them, enter the clamp voltage.',
 };
-const EXTRAS: Record<SnubberKind, { note: string; fields: NumericSpec[] }> = {
-  rc: { note: EXTRA_NOTES.rc, fields: SNUBBER_KIND_FIELDS.rc },
-  'rcd-turnoff': { note: EXTRA_NOTES['rcd-turnoff'], fields: SNUBBER_KIND_FIELDS['rcd-turnoff'] },
-  'rcd-clamp': { note: EXTRA_NOTES['rcd-clamp'], fields: SNUBBER_KIND_FIELDS['rcd-clamp'] },
-};
-
-const KIND_OPTIONS: ReadonlyArray<{ value: SnubberKind; label: string }> = (['rc', 'rcd-turnoff', 'rcd-clamp'] as const).map((value) => ({
+const KIND_OPTIONS: ReadonlyArray<{ value: SnubberKind; label: string }> = SNUBBER_KIND_KEYS.map((value) => ({
   value,
   label: SNUBBER_KIND_WORDS[value],
 }));
@@ -75,18 +53,13 @@ const YES_NO: ReadonlyArray<{ value: 'yes' | 'no'; label: string }> = [
   { value: 'yes', label: 'Yes' },
 ];
 
-const ALL_EXTRAS = new Set<NumericKey>(Object.values(EXTRAS).flatMap((e) => e.fields.map((f) => f.key)));
-
-const LABELS: Record<string, string> = {
-  name: 'Name',
-  location: 'Location',
-  ...Object.fromEntries([...PARTS, ...OPERATING, ...Object.values(EXTRAS).flatMap((e) => e.fields)].map((f) => [f.key, f.label])),
-};
+/** The fields only some kinds have. */
+const KIND_ONLY = new Set<string>(SNUBBER_FIELDS.filter((f) => f.group === 'kind').map((f) => f.key));
 
 function withKind(draft: SnubberDraft, kind: SnubberKind): SnubberDraft {
   if (draft.kind === kind) return draft;
   // The extras of the old kind would be rejected by the new kind's schema, so they go.
-  const keep = Object.fromEntries(Object.entries(draft).filter(([k]) => !ALL_EXTRAS.has(k as NumericKey)));
+  const keep = Object.fromEntries(Object.entries(draft).filter(([k]) => !KIND_ONLY.has(k)));
   return { ...keep, kind };
 }
 
@@ -103,7 +76,7 @@ function evaluate(draft: SnubberDraft): Evaluation {
   for (const issue of parsed.error.issues) {
     const key = String(issue.path[0] ?? '');
     const present = (draft as Record<string, unknown>)[key];
-    if (present === undefined || present === null || present === '') missing.push(LABELS[key] ?? key);
+    if (present === undefined || present === null || present === '') missing.push(snubberFieldWords(key)?.label ?? key);
     else problems[key] ??= issue.message;
   }
   return { state: 'incomplete', missing: [...new Set(missing)], problems };
@@ -196,12 +169,12 @@ function SnubberEntry({ draft, index, readOnly, testID, serverProblems, onChange
   const problemOf = (key: string) => localProblems[key] ?? (isEmpty(key) ? undefined : serverProblems[key]);
   const refusedEmpty = Object.keys(serverProblems).some((key) => key !== '' && isEmpty(key));
 
-  const numeric = (spec: NumericSpec) => (
+  const numeric = (spec: SnubberFieldSpec) => (
     <QuantityField
       key={spec.key}
       label={spec.label}
       kind={spec.kind}
-      value={draft[spec.key]}
+      value={snubberValue(draft, spec.key)}
       onChange={(v) => onChange({ ...draft, [spec.key]: v })}
       testID={`${testID}-${spec.key}`}
       placeholder={spec.placeholder}
@@ -210,7 +183,6 @@ function SnubberEntry({ draft, index, readOnly, testID, serverProblems, onChange
     />
   );
 
-  const extras = EXTRAS[draft.kind];
   const title = draft.name?.trim() ? draft.name.trim() : `Snubber ${index + 1}`;
 
   return (
@@ -222,7 +194,7 @@ function SnubberEntry({ draft, index, readOnly, testID, serverProblems, onChange
       {serverProblems[''] ? <Message tone="error" text={serverProblems['']} /> : null}
       <View style={styles.row}>
         <TextField
-          label="Name"
+          label={SNUBBER_OTHER_FIELDS.name.label}
           testID={`${testID}-name`}
           value={draft.name ?? ''}
           editable={!readOnly}
@@ -233,7 +205,7 @@ function SnubberEntry({ draft, index, readOnly, testID, serverProblems, onChange
       </View>
       <View style={styles.row}>
         <TextField
-          label="Location on the schematic"
+          label={SNUBBER_OTHER_FIELDS.location.prompt}
           testID={`${testID}-location`}
           value={draft.location ?? ''}
           editable={!readOnly}
@@ -243,7 +215,7 @@ function SnubberEntry({ draft, index, readOnly, testID, serverProblems, onChange
         />
       </View>
       <Choice
-        label="Kind"
+        label={SNUBBER_OTHER_FIELDS.kind.label}
         testID={`${testID}-kind`}
         options={KIND_OPTIONS}
         value={draft.kind}
@@ -252,14 +224,14 @@ function SnubberEntry({ draft, index, readOnly, testID, serverProblems, onChange
       />
 
       <Text style={styles.group}>Parts and ratings</Text>
-      <View style={styles.row}>{PARTS.map(numeric)}</View>
+      <View style={styles.row}>{snubberFieldsOf(draft.kind, 'parts').map(numeric)}</View>
       <Text style={styles.group}>Operating point</Text>
-      <View style={styles.row}>{OPERATING.map(numeric)}</View>
-      <Text style={styles.group}>{KIND_OPTIONS.find((k) => k.value === draft.kind)?.label} details</Text>
-      <Text style={type.small}>{extras.note}</Text>
-      <View style={styles.row}>{extras.fields.map(numeric)}</View>
+      <View style={styles.row}>{snubberFieldsOf(draft.kind, 'operating').map(numeric)}</View>
+      <Text style={styles.group}>{SNUBBER_KIND_WORDS[draft.kind]} details</Text>
+      <Text style={type.small}>{KIND_NOTES[draft.kind]}</Text>
+      <View style={styles.row}>{snubberFieldsOf(draft.kind, 'kind').map(numeric)}</View>
       <Choice
-        label="Capacitor reachable after switch-off (adds it to the stored-energy inventory)"
+        label={SNUBBER_OTHER_FIELDS.accessible.prompt}
         testID={`${testID}-accessible`}
         options={YES_NO}
         value={draft.accessible ? 'yes' : 'no'}

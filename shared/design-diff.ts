@@ -1,9 +1,9 @@
 // What changed between two design drafts, input by input, in the engineer's units: used by the
 // revision diff (server) and by the app when a draft was saved elsewhere meanwhile.
-import { ALL_DESIGN_FIELDS, fieldUnitLabel, formatField, type FieldKind } from './design-fields';
+import { fieldUnitLabel, formatField } from './design-fields';
 import type { InputChange } from './schema/api';
 import type { DesignDraft } from './schema/discharge';
-import type { QuantityUnit } from './units';
+import { ALL_DESIGN_FIELDS, nounOf, snubberFieldWords, type FieldKind } from './schema/fields';
 
 function flatten(obj: unknown, prefix = ''): Map<string, unknown> {
   const out = new Map<string, unknown>();
@@ -29,62 +29,15 @@ function show(kind: FieldKind | undefined, value: unknown): string {
   return String(value);
 }
 
-// Snubber fields in plain words (the rest of the design is described in shared/design-fields.ts).
-const SNUBBER_WORDS: Record<string, string> = {
-  name: 'name',
-  location: 'location',
-  kind: 'kind',
-  resistance: 'resistance',
-  capacitance: 'capacitance',
-  capacitanceTolerance: 'capacitance tolerance',
-  powerRating: 'resistor power rating',
-  derating: 'derating',
-  capacitorVoltageRating: 'capacitor voltage rating',
-  switchingVoltage: 'switching voltage',
-  overshoot: 'overshoot',
-  switchingFrequency: 'switching frequency',
-  accessible: 'accessible after switch-off',
-  parasiticInductance: 'loop inductance',
-  parasiticCapacitance: 'node capacitance',
-  switchedCurrent: 'switched current',
-  fallTime: 'current fall time',
-  minOnTime: 'minimum on-time',
-  leakageInductance: 'leakage inductance',
-  peakCurrent: 'peak current',
-  clampVoltage: 'clamp voltage',
-  reflectedVoltage: 'reflected voltage',
-};
-const SNUBBER_UNITS: Record<string, QuantityUnit> = {
-  resistance: 'Ω',
-  capacitance: 'F',
-  powerRating: 'W',
-  capacitorVoltageRating: 'V',
-  switchingVoltage: 'V',
-  switchingFrequency: 'Hz',
-  parasiticInductance: 'H',
-  parasiticCapacitance: 'F',
-  switchedCurrent: 'A',
-  fallTime: 's',
-  minOnTime: 's',
-  leakageInductance: 'H',
-  peakCurrent: 'A',
-  clampVoltage: 'V',
-  reflectedVoltage: 'V',
-};
-
 function describePath(path: string, design: DesignDraft): { label: string; kind?: FieldKind } {
   const known = KNOWN.get(path);
   if (known) return { label: known.label, kind: known.kind };
   const snub = /^snubbers\[(\d+)]\.(\w+)$/.exec(path);
   if (snub) {
     const name = design.snubbers?.[Number(snub[1])]?.name || `#${Number(snub[1]) + 1}`;
-    const unit = SNUBBER_UNITS[snub[2]];
-    const kind: FieldKind | undefined = unit
-      ? { type: 'quantity', unit }
-      : ['capacitanceTolerance', 'derating', 'overshoot'].includes(snub[2])
-        ? { type: 'percent' }
-        : undefined;
-    return { label: `Snubber ${name}: ${SNUBBER_WORDS[snub[2]] ?? snub[2]}`, kind };
+    const spec = snubberFieldWords(snub[2]);
+    const words = spec ? nounOf(spec).replace(/^./, (c) => c.toLowerCase()) : snub[2];
+    return { label: `Snubber ${name}: ${words}`, kind: spec?.kind };
   }
   return { label: path };
 }

@@ -7,85 +7,22 @@ import { SnubberSizingResults } from '../../components/snubber-sizing-results';
 import { SnubberToRevision } from '../../components/snubber-to-revision';
 import { Card } from '../../components/ui/card';
 import { Screen } from '../../components/ui/screen';
+import {
+  EMPTY,
+  MEASUREMENT,
+  OPERATING,
+  readForm,
+  serverFieldErrors,
+  textsOf,
+  type FieldName,
+  type FieldSpec,
+  type Texts,
+} from '../../components/snubber-sizing-form';
 import { TextField } from '../../components/ui/text-field';
 import { space, type, WIDE_BREAKPOINT } from '../../constants/theme';
-import { ApiError } from '../../hooks/api';
 import { useMe } from '../../hooks/use-me';
 import { useSnubberSizing } from '../../hooks/use-snubber-sizing';
-import { MULTIPLE_RANGE, type RingingInputRaw } from '../../shared/schema/snubber';
-import { formatQuantity, parseQuantity, type ParseResult, type QuantityUnit } from '../../shared/units';
-
-type FieldName = 'f0' | 'cAdd' | 'f1' | 'multiple' | 'switchingVoltage' | 'switchingFrequency';
-type Texts = Record<FieldName, string>;
-
-interface FieldSpec {
-  name: FieldName;
-  label: string;
-  placeholder: string;
-  hint?: string;
-  unit?: QuantityUnit;
-}
-
-const MEASUREMENT: FieldSpec[] = [
-  { name: 'f0', label: 'Ring frequency f0 (bare node)', placeholder: '20 MHz', unit: 'Hz' },
-  { name: 'cAdd', label: 'Added capacitance C_add', placeholder: '300 pF', unit: 'F' },
-  { name: 'f1', label: 'Ring frequency f1 (with C_add)', placeholder: '10 MHz', unit: 'Hz' },
-  {
-    name: 'multiple',
-    label: 'Snubber C as a multiple of C_par',
-    placeholder: String(MULTIPLE_RANGE.default),
-    hint: 'Common practice 3–4×',
-  },
-];
-
-const OPERATING: FieldSpec[] = [
-  { name: 'switchingVoltage', label: 'Switching voltage (optional)', placeholder: '48 V', unit: 'V' },
-  { name: 'switchingFrequency', label: 'Switching frequency (optional)', placeholder: '250 kHz', unit: 'Hz' },
-];
-
-const EMPTY: Texts = { f0: '', cAdd: '', f1: '', multiple: String(MULTIPLE_RANGE.default), switchingVoltage: '', switchingFrequency: '' };
-
-function parseMultiple(text: string): ParseResult {
-  const m = /^(\d+(?:[.,]\d+)?)\s*[×xX]?$/.exec(text.trim());
-  return m ? { ok: true, value: Number(m[1].replace(',', '.')) } : { ok: false, error: `“${text.trim()}” is not a number — write e.g. “3.5”` };
-}
-
-/** Typed text → the API input; only the units are read here, the server judges ranges and f1 < f0. */
-function readForm(texts: Texts): { input: RingingInputRaw | null; errors: Partial<Record<FieldName, string>> } {
-  const errors: Partial<Record<FieldName, string>> = {};
-  const values: Partial<Record<FieldName, number>> = {};
-  for (const spec of [...MEASUREMENT, ...OPERATING]) {
-    const text = texts[spec.name].trim();
-    if (text === '') continue;
-    const parsed = spec.unit ? parseQuantity(text, spec.unit) : parseMultiple(text);
-    if (parsed.ok) values[spec.name] = parsed.value;
-    else errors[spec.name] = parsed.error;
-  }
-  // An emptied multiple falls back to the default, as the server would.
-  const { f0, cAdd, f1, multiple = MULTIPLE_RANGE.default, switchingVoltage = null, switchingFrequency = null } = values;
-  if (f0 === undefined || cAdd === undefined || f1 === undefined || Object.keys(errors).length > 0) {
-    return { input: null, errors };
-  }
-  return { input: { f0, cAdd, f1, multiple, switchingVoltage, switchingFrequency }, errors };
-}
-
-function serverFieldErrors(error: Error | null): Partial<Record<FieldName, string>> {
-  if (!(error instanceof ApiError)) return {};
-  return Object.fromEntries(error.fields.map((f) => [f.path, f.message]));
-}
-
-/** A sized input as the texts of the form, for going back to it. */
-function textsOf(input: RingingInputRaw): Texts {
-  const q = (value: number | null | undefined, unit: QuantityUnit) => (value === null || value === undefined ? '' : formatQuantity(value, unit, 4));
-  return {
-    f0: q(input.f0, 'Hz'),
-    cAdd: q(input.cAdd, 'F'),
-    f1: q(input.f1, 'Hz'),
-    multiple: String(input.multiple),
-    switchingVoltage: q(input.switchingVoltage, 'V'),
-    switchingFrequency: q(input.switchingFrequency, 'Hz'),
-  };
-}
+import { formatQuantity, parseQuantity } from '../../shared/units';
 
 export default function SnubberSizingScreen() {
   const { width } = useWindowDimensions();

@@ -1,9 +1,7 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
-import { Controller, useForm } from 'react-hook-form';
 import { StyleSheet, Text, View } from 'react-native';
-import { inviteUserSchema, ROLE_NAMES, type InviteUserInput } from '../../shared/schema/auth';
 import { InviteControls } from '../../components/invite-controls';
+import { InviteForm, roleOptions } from '../../components/invite-form';
 import { changeDone, TeamChangeDialog, type TeamChange } from '../../components/team-change-dialog';
 import { Badge } from '../../components/ui/badge';
 import { Button } from '../../components/ui/button';
@@ -11,17 +9,13 @@ import { Card } from '../../components/ui/card';
 import { Choice } from '../../components/ui/choice';
 import { Message } from '../../components/ui/message';
 import { Screen } from '../../components/ui/screen';
-import { TextField } from '../../components/ui/text-field';
 import { colors, space, type } from '../../constants/theme';
 import { useMe } from '../../hooks/use-me';
-import { useInviteUser, useTeam, useUpdateUser } from '../../hooks/use-team';
-
-const roleOptions = ROLE_NAMES.map((r) => ({ value: r, label: r[0].toUpperCase() + r.slice(1) }));
+import { useTeam, useUpdateUser } from '../../hooks/use-team';
 
 export default function TeamScreen() {
   const me = useMe().data!;
   const team = useTeam();
-  const invite = useInviteUser();
   const update = useUpdateUser();
   // Role changes and disabling ask first, then say what took effect.
   const [change, setChange] = useState<TeamChange | null>(null);
@@ -42,54 +36,16 @@ export default function TeamScreen() {
     setDone(null);
     setChange(c);
   };
-  const { control, handleSubmit, formState, reset } = useForm<InviteUserInput>({
-    resolver: zodResolver(inviteUserSchema),
-    defaultValues: { email: '', name: '', role: 'engineer' },
-  });
   if (me.role !== 'admin')
     return (
       <Screen title="Team" testID="team-screen">
         <Message text="Only administrators manage the team." />
       </Screen>
     );
-  const submit = handleSubmit((values) => invite.mutate(values, { onSuccess: () => reset() }));
 
   return (
     <Screen title="Team" subtitle="Invite people, resend or revoke invitations, set roles, disable accounts." testID="team-screen">
-      <Card title="Invite someone">
-        <View style={styles.row}>
-          <Controller
-            control={control}
-            name="name"
-            render={({ field }) => (
-              <TextField label="Name" testID="invite-name" value={field.value} onChangeText={field.onChange} error={formState.errors.name?.message} />
-            )}
-          />
-          <Controller
-            control={control}
-            name="email"
-            render={({ field }) => (
-              <TextField
-                label="E-mail"
-                testID="invite-email"
-                autoCapitalize="none"
-                keyboardType="email-address"
-                value={field.value}
-                onChangeText={field.onChange}
-                error={formState.errors.email?.message}
-              />
-            )}
-          />
-        </View>
-        <Controller
-          control={control}
-          name="role"
-          render={({ field }) => <Choice label="Role" testID="invite-role" options={roleOptions} value={field.value} onChange={field.onChange} />}
-        />
-        {invite.error ? <Message tone="error" text={invite.error.message} /> : null}
-        {invite.isSuccess ? <Message text={`Invitation sent to ${invite.data.email}.`} testID="invite-sent" /> : null}
-        <Button label="Send invitation" testID="invite-submit" onPress={submit} busy={invite.isPending} />
-      </Card>
+      <InviteForm />
       <Card title="People">
         {team.isError ? <Message tone="error" text={team.error.message} /> : null}
         {team.data?.map((user) => (
@@ -148,7 +104,6 @@ export default function TeamScreen() {
 }
 
 const styles = StyleSheet.create({
-  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   person: { gap: space.sm, paddingVertical: space.md, borderTopWidth: 1, borderTopColor: colors.line },
   personHead: { flexDirection: 'row', gap: space.sm, alignItems: 'center', flexWrap: 'wrap' },
 });

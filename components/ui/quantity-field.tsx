@@ -1,7 +1,8 @@
 import { useEffect, useState } from 'react';
 import { StyleSheet, Text } from 'react-native';
 import { colors, fonts } from '../../constants/theme';
-import { fieldText, formatField, parseField, type FieldKind } from '../../shared/design-fields';
+import { fieldText, formatField, parseField } from '../../shared/design-fields';
+import type { FieldKind } from '../../shared/schema/fields';
 import { formatPercent, formatQuantity } from '../../shared/units';
 import { TextField } from './text-field';
 

@@ -234,22 +234,12 @@ export async function seedDemoDossiers(trx: Knex.Transaction, ids: Record<string
       {
         number: 1,
         status: 'returned',
+        // The same drive's auxiliary supply input: its X capacitor and bleed, in the drive's ambient.
         design: {
+          ...wrenDesign,
           bus: { nominalVoltage: 325, maxVoltage: 358 },
           capacitors: { capacitance: 2.2e-6, series: 1, parallel: 1, toleranceMinus: 0.1, tolerancePlus: 0.1 },
-          bleeder: {
-            resistance: 470e3,
-            series: 2,
-            parallel: 1,
-            tolerance: 0.01,
-            tcrPpmPerK: 100,
-            drift: 0,
-            powerRating: 0.25,
-            elementVoltage: 200,
-            derating: 0.5,
-          },
-          ambient: { min: 0, max: 55 },
-          active: null,
+          bleeder: { ...wrenDesign.bleeder!, resistance: 470e3, tolerance: 0.01, tcrPpmPerK: 100, drift: 0, powerRating: 0.25, elementVoltage: 200 },
         },
         notes: 'X-capacitor bleed on the auxiliary supply input.\n',
         author: ids.engineer,

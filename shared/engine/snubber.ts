@@ -2,6 +2,7 @@
 // each snubber in a design (resistor dissipation, capacitor voltage, damping or reset), and the energy
 // left in accessible snubber capacitors for the discharge inventory. Pure; SI base units throughout.
 import type { Check } from '../schema/discharge';
+import { upperLimitCheck } from './check';
 import { MULTIPLE_RANGE, type RcdClampSnubber, type RcdTurnoffSnubber, type RcSnubber, type Snubber } from '../schema/snubber';
 // Short local names: the detail lines quote many quantities.
 import { formatPercent as pct, formatQuantity as si } from '../units';
@@ -111,10 +112,6 @@ export interface SnubberCheckOptions {
   readonly minDampingRatio?: number;
 }
 
-function upper(base: Pick<Check, 'id' | 'label' | 'unit'>, value: number, limit: number, detail: string): Check {
-  return { ...base, value, limit, pass: value <= limit, margin: (limit - value) / limit, detail };
-}
-
 function lower(base: Pick<Check, 'id' | 'label' | 'unit'>, value: number, limit: number, detail: string): Check {
   return { ...base, value, limit, pass: value >= limit, margin: (value - limit) / limit, detail };
 }
@@ -136,12 +133,14 @@ function powerLimit(s: Snubber): { limit: number; text: string } {
 }
 
 function voltageCheck(s: Snubber, peak: number, how: string): Check {
-  return upper(
-    { id: 'snubber-voltage', label: label(s, 'capacitor voltage'), unit: 'V' },
-    peak,
-    s.capacitorVoltageRating,
-    `${how}; rating ${si(s.capacitorVoltageRating, 'V')}`,
-  );
+  return upperLimitCheck({
+    id: 'snubber-voltage',
+    label: label(s, 'capacitor voltage'),
+    unit: 'V',
+    value: peak,
+    limit: s.capacitorVoltageRating,
+    detail: `${how}; rating ${si(s.capacitorVoltageRating, 'V')}`,
+  });
 }
 
 function rcChecks(s: RcSnubber, options: SnubberCheckOptions): Check[] {
@@ -149,13 +148,16 @@ function rcChecks(s: RcSnubber, options: SnubberCheckOptions): Check[] {
   const power = rcSnubberPower(cMax, s.switchingVoltage, s.switchingFrequency);
   const { limit, text } = powerLimit(s);
   const checks: Check[] = [
-    upper(
-      { id: 'snubber-power', label: label(s, 'resistor dissipation'), unit: 'W' },
-      power,
+    upperLimitCheck({
+      id: 'snubber-power',
+      label: label(s, 'resistor dissipation'),
+      unit: 'W',
+      value: power,
       limit,
-      `C·V²·f_sw with C at +${pct(s.capacitanceTolerance)} (${si(cMax, 'F')}), ${si(s.switchingVoltage, 'V')}, ` +
+      detail:
+        `C·V²·f_sw with C at +${pct(s.capacitanceTolerance)} (${si(cMax, 'F')}), ${si(s.switchingVoltage, 'V')}, ` +
         `${si(s.switchingFrequency, 'Hz')}; limit ${text}`,
-    ),
+    }),
   ];
   // The capacitor follows the node through R, so it sees no more than the node's peak.
   const peak = s.switchingVoltage * (1 + s.overshoot);
@@ -199,13 +201,16 @@ function rcdTurnoffChecks(s: RcdTurnoffSnubber): Check[] {
   const power = 0.5 * cMax * peak * peak * s.switchingFrequency;
   const { limit, text } = powerLimit(s);
   const checks: Check[] = [
-    upper(
-      { id: 'snubber-power', label: label(s, 'resistor dissipation'), unit: 'W' },
-      power,
+    upperLimitCheck({
+      id: 'snubber-power',
+      label: label(s, 'resistor dissipation'),
+      unit: 'W',
+      value: power,
       limit,
-      `½·C·V²·f_sw with C at +${pct(s.capacitanceTolerance)} (${si(cMax, 'F')}), peak ${si(peak, 'V')}, ` +
+      detail:
+        `½·C·V²·f_sw with C at +${pct(s.capacitanceTolerance)} (${si(cMax, 'F')}), peak ${si(peak, 'V')}, ` +
         `${si(s.switchingFrequency, 'Hz')}; limit ${text}`,
-    ),
+    }),
     voltageCheck(s, peak, `switching voltage ${si(s.switchingVoltage, 'V')} plus ${pct(s.overshoot)} overshoot, held by the diode`),
   ];
 
@@ -215,12 +220,12 @@ function rcdTurnoffChecks(s: RcdTurnoffSnubber): Check[] {
   } else {
     // Reset: R·C ≤ t_on,min/3 so the capacitor is ~95 % discharged before the next turn-off.
     checks.push(
-      upper(
-        resetBase,
-        s.resistance * cMax,
-        s.minOnTime / 3,
-        `R·C with C at +${pct(s.capacitanceTolerance)} against a third of the ${si(s.minOnTime, 's')} minimum on-time`,
-      ),
+      upperLimitCheck({
+        ...resetBase,
+        value: s.resistance * cMax,
+        limit: s.minOnTime / 3,
+        detail: `R·C with C at +${pct(s.capacitanceTolerance)} against a third of the ${si(s.minOnTime, 's')} minimum on-time`,
+      }),
     );
   }
 
@@ -280,14 +285,15 @@ function rcdClampChecks(s: RcdClampSnubber): Check[] {
     // ½·I_pk·t of charge into C_min; the peak is the settled voltage plus that whole step.
     const ripple = (L * I * I) / (2 * (op.clampVoltage - vr) * capacitanceMin(s));
     return [
-      upper(
-        powerBase,
-        op.power,
+      upperLimitCheck({
+        ...powerBase,
+        value: op.power,
         limit,
-        `½·L_lk·I_pk²·f_sw·V_c/(V_c − V_refl) with ${si(L, 'H')}, ${si(I, 'A')}, ` +
+        detail:
+          `½·L_lk·I_pk²·f_sw·V_c/(V_c − V_refl) with ${si(L, 'H')}, ${si(I, 'A')}, ` +
           `${si(s.switchingFrequency, 'Hz')}; ${si(s.resistance, 'Ω')} settles the clamp at ` +
           `${si(op.clampVoltage, 'V')}${declared}; limit ${text}`,
-      ),
+      }),
       voltageCheck(
         s,
         op.clampVoltage + ripple,
@@ -298,13 +304,14 @@ function rcdClampChecks(s: RcdClampSnubber): Check[] {
   if (s.clampVoltage != null) {
     // Without the leakage data the resistor is taken to sit at the declared clamp voltage: P = V_c²/R.
     return [
-      upper(
-        powerBase,
-        (s.clampVoltage * s.clampVoltage) / s.resistance,
+      upperLimitCheck({
+        ...powerBase,
+        value: (s.clampVoltage * s.clampVoltage) / s.resistance,
         limit,
-        `V_c²/R at the declared clamp voltage ${si(s.clampVoltage, 'V')} (leakage inductance, peak current or ` +
+        detail:
+          `V_c²/R at the declared clamp voltage ${si(s.clampVoltage, 'V')} (leakage inductance, peak current or ` +
           `reflected voltage not entered); limit ${text}`,
-      ),
+      }),
       voltageCheck(s, s.clampVoltage, `declared clamp voltage ${si(s.clampVoltage, 'V')}, ripple not known`),
     ];
   }

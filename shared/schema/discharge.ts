@@ -2,7 +2,11 @@
 // app, the API and stored revisions. All numbers are SI base units; temperatures in °C; tolerances are
 // fractions (0.01 = 1 %).
 import { z } from 'zod';
+import { fieldAt, nounOf } from './fields';
 import { snubberDraftSchema, snubberSchema } from './snubber';
+
+/** A field's name in messages, from its descriptor (shared/schema/fields.ts). */
+const noun = (path: string) => nounOf(fieldAt(path));
 
 interface QuantityRule {
   /** Plain name used in messages, e.g. "Capacitance". */
@@ -38,43 +42,43 @@ const text = (label: string) => z.string({ error: `${label} must be text` }).max
 
 // Leaf definitions, written once and used for both the complete design and the draft.
 const busLeaves = {
-  nominalVoltage: voltage('Nominal bus voltage'),
-  maxVoltage: voltage('Maximum bus voltage'),
+  nominalVoltage: voltage(noun('bus.nominalVoltage')),
+  maxVoltage: voltage(noun('bus.maxVoltage')),
 };
 const capacitorLeaves = {
-  capacitance: quantity({ label: 'Capacitance per unit', unit: 'F', min: 0, max: 10 }),
-  series: count('Capacitors in series'),
-  parallel: count('Capacitor strings in parallel'),
-  toleranceMinus: fraction('Capacitance tolerance (−)'),
-  tolerancePlus: fraction('Capacitance tolerance (+)'),
+  capacitance: quantity({ label: noun('capacitors.capacitance'), unit: 'F', min: 0, max: 10 }),
+  series: count(noun('capacitors.series')),
+  parallel: count(noun('capacitors.parallel')),
+  toleranceMinus: fraction(noun('capacitors.toleranceMinus')),
+  tolerancePlus: fraction(noun('capacitors.tolerancePlus')),
 };
 const bleederLeaves = {
-  resistance: quantity({ label: 'Resistance per resistor', unit: 'Ω', min: 0, max: 1e12 }),
-  series: count('Resistors in series'),
-  parallel: count('Resistor strings in parallel'),
-  tolerance: fraction('Resistor tolerance'),
-  tcrPpmPerK: quantity({ label: 'Temperature coefficient', unit: 'ppm/K', min: -10000, minInclusive: true, max: 10000 }),
-  drift: fraction('Resistor life drift'),
-  powerRating: quantity({ label: 'Resistor power rating', unit: 'W', min: 0, max: 1e5 }),
-  elementVoltage: voltage('Limiting element voltage'),
-  derating: quantity({ label: 'Power derating (fraction of the rating allowed)', unit: '(fraction)', min: 0, max: 1 }),
+  resistance: quantity({ label: noun('bleeder.resistance'), unit: 'Ω', min: 0, max: 1e12 }),
+  series: count(noun('bleeder.series')),
+  parallel: count(noun('bleeder.parallel')),
+  tolerance: fraction(noun('bleeder.tolerance')),
+  tcrPpmPerK: quantity({ label: noun('bleeder.tcrPpmPerK'), unit: 'ppm/K', min: -10000, minInclusive: true, max: 10000 }),
+  drift: fraction(noun('bleeder.drift')),
+  powerRating: quantity({ label: noun('bleeder.powerRating'), unit: 'W', min: 0, max: 1e5 }),
+  elementVoltage: voltage(noun('bleeder.elementVoltage')),
+  derating: quantity({ label: noun('bleeder.derating'), unit: '(fraction)', min: 0, max: 1 }),
 };
 const ambientLeaves = {
-  min: temperature('Minimum ambient temperature'),
-  max: temperature('Maximum ambient temperature'),
+  min: temperature(noun('ambient.min')),
+  max: temperature(noun('ambient.max')),
 };
 const constantCurrentLeaves = {
-  current: quantity({ label: 'Discharge current', unit: 'A', min: 0, max: 1e5 }),
-  delay: delay('Activation delay'),
+  current: quantity({ label: noun('active.current'), unit: 'A', min: 0, max: 1e5 }),
+  delay: delay(noun('active.delay')),
 };
 const switchedResistorLeaves = {
-  resistance: quantity({ label: 'Discharge resistance', unit: 'Ω', min: 0, max: 1e12 }),
-  pulseEnergy: quantity({ label: 'Pulse energy rating', unit: 'J', min: 0, max: 1e9 }),
-  delay: delay('Activation delay'),
+  resistance: quantity({ label: noun('active.resistance'), unit: 'Ω', min: 0, max: 1e12 }),
+  pulseEnergy: quantity({ label: noun('active.pulseEnergy'), unit: 'J', min: 0, max: 1e9 }),
+  delay: delay(noun('active.delay')),
 };
 const balancingLeaves = {
-  leakageCurrent: quantity({ label: 'Maximum capacitor leakage current', unit: 'A', min: 0, max: 100 }),
-  capacitorVoltageRating: voltage('Capacitor voltage rating'),
+  leakageCurrent: quantity({ label: noun('balancing.leakageCurrent'), unit: 'A', min: 0, max: 100 }),
+  capacitorVoltageRating: voltage(noun('balancing.capacitorVoltageRating')),
 };
 
 type Leaves = Record<string, z.ZodType>;
@@ -105,28 +109,28 @@ const ambientOrder = ordered('min', 'max', 'Maximum ambient temperature must be 
 // Requirement (docs/DOMAIN.md §7.1)
 
 export const requirementSchema = z.object({
-  safeVoltage: voltage('Safe voltage'),
-  maxTime: time('Time limit'),
-  maxEnergy: quantity({ label: 'Energy limit', unit: 'J', min: 0, max: 1e9 }).nullish(),
+  safeVoltage: voltage(noun('requirement.safeVoltage')),
+  maxTime: time(noun('requirement.maxTime')),
+  maxEnergy: quantity({ label: noun('requirement.maxEnergy'), unit: 'J', min: 0, max: 1e9 }).nullish(),
   /** Charge criterion, coulombs (e.g. 45 µC in laboratory-equipment standards). */
-  maxCharge: quantity({ label: 'Charge limit', unit: 'C', min: 0, max: 1e3 }).nullish(),
+  maxCharge: quantity({ label: noun('requirement.maxCharge'), unit: 'C', min: 0, max: 1e3 }).nullish(),
   /** Limit for the passive bleeders alone when an active circuit is declared. */
-  fallbackMaxTime: time('Fallback time limit').nullish(),
+  fallbackMaxTime: time(noun('requirement.fallbackMaxTime')).nullish(),
   /**
    * Whether the discharge must also hold under a single fault (one bleeder open, one series resistor
    * shorted); the user's standard decides, e.g. not when the bleeder is a component judged reliable.
    */
   singleFault: z.boolean({ error: 'Single-fault condition must be true or false' }).default(false),
   /** Time limit under a single fault where the standard allows longer than `maxTime`, s. */
-  singleFaultMaxTime: time('Single-fault time limit').nullish(),
+  singleFaultMaxTime: time(noun('requirement.singleFaultMaxTime')).nullish(),
   condition: text('Condition').default(''),
   reference: text('Reference').default(''),
 });
 
 /** A requirement being typed in: every field optional; what is present must be valid. */
 export const requirementDraftSchema = z.object({
-  safeVoltage: voltage('Safe voltage').nullish(),
-  maxTime: time('Time limit').nullish(),
+  safeVoltage: requirementSchema.shape.safeVoltage.nullish(),
+  maxTime: requirementSchema.shape.maxTime.nullish(),
   maxEnergy: requirementSchema.shape.maxEnergy,
   maxCharge: requirementSchema.shape.maxCharge,
   fallbackMaxTime: requirementSchema.shape.fallbackMaxTime,
@@ -143,7 +147,7 @@ export const busSchema = z.object(busLeaves).superRefine(busOrder);
 export const capacitorsSchema = z.object({
   ...capacitorLeaves,
   /** Fractional capacitance loss over life; it lowers C_min only (never helps the slow corner). */
-  ageing: fraction('Capacitance ageing loss').nullish(),
+  ageing: fraction(noun('capacitors.ageing')).nullish(),
 });
 export const bleederSchema = z.object(bleederLeaves);
 export const ambientSchema = z.object(ambientLeaves).superRefine(ambientOrder);
@@ -152,7 +156,7 @@ export const switchedResistorSchema = z.object({
   mode: z.literal('switched-resistor'),
   ...switchedResistorLeaves,
   /** Short-time (pulse) power rating of the discharge resistor, compared with the peak power V0²/R. */
-  powerRating: quantity({ label: 'Discharge resistor pulse power rating', unit: 'W', min: 0, max: 1e9 }).nullish(),
+  powerRating: quantity({ label: noun('active.powerRating'), unit: 'W', min: 0, max: 1e9 }).nullish(),
 });
 const activeModeError = { error: 'Active discharge mode must be "constant-current" or "switched-resistor"' };
 export const activeSchema = z.discriminatedUnion('mode', [constantCurrentSchema, switchedResistorSchema], activeModeError).nullable();
@@ -331,8 +335,6 @@ export type Capacitors = z.infer<typeof capacitorsSchema>;
 export type Bleeder = z.infer<typeof bleederSchema>;
 export type Ambient = z.infer<typeof ambientSchema>;
 export type Active = z.infer<typeof activeSchema>;
-export type ConstantCurrent = z.infer<typeof constantCurrentSchema>;
-export type SwitchedResistor = z.infer<typeof switchedResistorSchema>;
 export type Balancing = z.infer<typeof balancingSchema>;
 export type DischargeInput = z.infer<typeof dischargeInputSchema>;
 export type Check = z.infer<typeof checkSchema>;

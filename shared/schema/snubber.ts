@@ -4,6 +4,7 @@
 // fails on its own field instead of producing a confident but meaningless result.
 import { z } from 'zod';
 import { formatQuantity } from '../units';
+import { nounOf, snubberField, type SnubberKindKey, type SnubberNumericKey } from './fields';
 
 const positive = (what: string, min: number, max: number, unit: string) =>
   z
@@ -29,49 +30,55 @@ export const MULTIPLE_RANGE = { min: 1, max: 20, default: 3.5 } as const;
 const frequency = (what: string) => positive(what, FREQUENCY_RANGE.min, FREQUENCY_RANGE.max, 'Hz');
 const capacitance = (what: string) => positive(what, CAPACITANCE_RANGE.min, CAPACITANCE_RANGE.max, 'F');
 
-export const snubberKinds = ['rc', 'rcd-turnoff', 'rcd-clamp'] as const;
-export type SnubberKind = (typeof snubberKinds)[number];
+export type SnubberKind = SnubberKindKey;
+
+/** A positive number named and measured as its descriptor says (shared/schema/fields.ts), within bounds. */
+function sized(key: SnubberNumericKey, min: number, max: number) {
+  const spec = snubberField(key);
+  return positive(nounOf(spec), min, max, spec.kind.type === 'quantity' ? spec.kind.unit : '');
+}
+const share = (key: SnubberNumericKey, max: number) => fraction(nounOf(snubberField(key)), max);
 
 const base = {
   name: z.string().trim().min(1, { error: 'Give the snubber a name' }).max(120),
   location: z.string().trim().max(500).default(''),
-  resistance: positive('Resistance', 1e-3, 1e9, 'Ω'),
-  capacitance: capacitance('Capacitance'),
-  capacitanceTolerance: fraction('Capacitance tolerance', 0.9),
-  powerRating: positive('Resistor power rating', 1e-3, 1e4, 'W'),
-  derating: fraction('Derating', 1).refine((v) => v > 0, {
+  resistance: sized('resistance', 1e-3, 1e9),
+  capacitance: sized('capacitance', CAPACITANCE_RANGE.min, CAPACITANCE_RANGE.max),
+  capacitanceTolerance: share('capacitanceTolerance', 0.9),
+  powerRating: sized('powerRating', 1e-3, 1e4),
+  derating: share('derating', 1).refine((v) => v > 0, {
     error: 'Derating must be greater than zero (the fraction of the rating allowed)',
   }),
-  capacitorVoltageRating: positive('Capacitor voltage rating', 1, 1e6, 'V'),
-  switchingVoltage: positive('Switching voltage', 1e-1, 1e6, 'V'),
-  overshoot: fraction('Overshoot', 10),
-  switchingFrequency: positive('Switching frequency', 1, FREQUENCY_RANGE.max, 'Hz'),
+  capacitorVoltageRating: sized('capacitorVoltageRating', 1, 1e6),
+  switchingVoltage: sized('switchingVoltage', 1e-1, 1e6),
+  overshoot: share('overshoot', 10),
+  switchingFrequency: sized('switchingFrequency', 1, FREQUENCY_RANGE.max),
   accessible: z.boolean().default(false),
 };
 
 export const rcSnubberSchema = z.object({
   ...base,
   kind: z.literal('rc'),
-  parasiticInductance: positive('Parasitic inductance', 1e-12, 1e-2, 'H').nullish(),
-  parasiticCapacitance: capacitance('Parasitic capacitance').nullish(),
+  parasiticInductance: sized('parasiticInductance', 1e-12, 1e-2).nullish(),
+  parasiticCapacitance: sized('parasiticCapacitance', CAPACITANCE_RANGE.min, CAPACITANCE_RANGE.max).nullish(),
 });
 
 export const rcdTurnoffSnubberSchema = z.object({
   ...base,
   kind: z.literal('rcd-turnoff'),
-  switchedCurrent: positive('Switched current', 1e-6, 1e5, 'A').nullish(),
-  fallTime: positive('Current fall time', 1e-12, 1e-2, 's').nullish(),
-  minOnTime: positive('Minimum on-time', 1e-12, 1, 's').nullish(),
+  switchedCurrent: sized('switchedCurrent', 1e-6, 1e5).nullish(),
+  fallTime: sized('fallTime', 1e-12, 1e-2).nullish(),
+  minOnTime: sized('minOnTime', 1e-12, 1).nullish(),
 });
 
 export const rcdClampSnubberSchema = z
   .object({
     ...base,
     kind: z.literal('rcd-clamp'),
-    leakageInductance: positive('Leakage inductance', 1e-12, 1e-1, 'H').nullish(),
-    peakCurrent: positive('Peak primary current', 1e-6, 1e5, 'A').nullish(),
-    clampVoltage: positive('Clamp voltage', 1e-1, 1e6, 'V').nullish(),
-    reflectedVoltage: positive('Reflected voltage', 1e-1, 1e6, 'V').nullish(),
+    leakageInductance: sized('leakageInductance', 1e-12, 1e-1).nullish(),
+    peakCurrent: sized('peakCurrent', 1e-6, 1e5).nullish(),
+    clampVoltage: sized('clampVoltage', 1e-1, 1e6).nullish(),
+    reflectedVoltage: sized('reflectedVoltage', 1e-1, 1e6).nullish(),
   })
   .superRefine((s, ctx) => {
     if (s.clampVoltage != null && s.reflectedVoltage != null && s.clampVoltage <= s.reflectedVoltage) {
@@ -86,13 +93,10 @@ export const rcdClampSnubberSchema = z
 /** One snubber in a design (docs/ARCHITECTURE.md §6.3 `design.snubbers[]`). */
 export const snubberSchema = z.discriminatedUnion('kind', [rcSnubberSchema, rcdTurnoffSnubberSchema, rcdClampSnubberSchema]);
 
-export const snubberListSchema = z.array(snubberSchema).max(50);
-
 export type RcSnubber = z.infer<typeof rcSnubberSchema>;
 export type RcdTurnoffSnubber = z.infer<typeof rcdTurnoffSnubberSchema>;
 export type RcdClampSnubber = z.infer<typeof rcdClampSnubberSchema>;
 export type Snubber = z.infer<typeof snubberSchema>;
-export type SnubberInput = z.input<typeof snubberSchema>;
 
 /** Sizing from a ringing measurement: ring frequency, added capacitance, the lowered ring frequency. */
 export const ringingInputSchema = z
@@ -120,7 +124,6 @@ export const ringingInputSchema = z
     }
   });
 
-export type RingingInput = z.infer<typeof ringingInputSchema>;
 export type RingingInputRaw = z.input<typeof ringingInputSchema>;
 
 /** Every field but the kind optional and nullable; present values keep their rules. */

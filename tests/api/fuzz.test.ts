@@ -6,7 +6,7 @@ import { readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ALL_DESIGN_FIELDS } from '../../shared/design-fields';
+import { ALL_DESIGN_FIELDS } from '../../shared/schema/fields';
 import { demoDesign } from '../support/fixtures';
 import { DEMO_PASSWORD, newDraft, startTestServer, type TestServer } from '../support/test-server';
 import { sessionCookie } from '../support/uploads';

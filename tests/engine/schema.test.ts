@@ -1,29 +1,23 @@
 // The wire schema turns nonsense into field-level errors and lets real designs through.
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { computeDischarge } from '../../shared/engine';
-import { designDraftSchema, designSchema, dischargeInputSchema, dischargeResultSchema, requirementSchema } from '../../shared/schema/discharge';
+import {
+  designDraftSchema,
+  designSchema,
+  dischargeInputSchema,
+  dischargeResultSchema,
+  requirementSchema,
+  type Design,
+  type Requirement,
+} from '../../shared/schema/discharge';
 
-// docs/ARCHITECTURE.md §6.3 example body, verbatim.
-const example = {
-  requirement: { safeVoltage: 60, maxTime: 5, maxEnergy: null, condition: 'after mains disconnection', reference: "user's clause text" },
-  design: {
-    bus: { nominalVoltage: 565, maxVoltage: 622 },
-    capacitors: { capacitance: 4.7e-4, series: 1, parallel: 2, toleranceMinus: 0.2, tolerancePlus: 0.2 },
-    bleeder: {
-      resistance: 1.0e5,
-      series: 2,
-      parallel: 1,
-      tolerance: 0.01,
-      tcrPpmPerK: 100,
-      drift: 0,
-      powerRating: 2,
-      elementVoltage: 500,
-      derating: 0.5,
-    },
-    ambient: { min: -25, max: 85 },
-    active: null,
-  },
-};
+// docs/ARCHITECTURE.md §6.3 example body, read from the document itself so the two cannot differ.
+const architecture = readFileSync(join(__dirname, '../../docs/ARCHITECTURE.md'), 'utf8');
+const exampleBlock = /### 6\.3 [^]*?```json\n([^]*?)```/.exec(architecture);
+if (!exampleBlock) throw new Error('docs/ARCHITECTURE.md §6.3 has no JSON example');
+const example = JSON.parse(exampleBlock[1]) as { requirement: Requirement; design: Omit<Design, 'snubbers' | 'balancing'> };
 
 function errorPaths(result: { success: boolean; error?: { issues: { path: PropertyKey[] }[] } }): string[] {
   return (result.error?.issues ?? []).map((i) => i.path.map(String).join('.'));

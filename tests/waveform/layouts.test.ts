@@ -220,52 +220,39 @@ describe('imperfect but exponential traces', () => {
   });
 });
 
+/** Two-column capture of a trace that is not an exponential, with what every such trace must give: a poor fit and no τ. */
+async function analyseNonExponential(spec: DecaySpec) {
+  const { time, volts } = sampleDecay(spec);
+  const text = captureText([
+    { header: 'Time (s)', values: time },
+    { header: 'CH1 (V)', values: volts },
+  ]);
+  const result = await analyseCaptureText(text, { safeVoltage: SAFE });
+  expect(result.fit).toBe('poor');
+  expect(result.tau).toBeNull();
+  return result;
+}
+
+/** Disconnect at 0 s, 0.2 s of pre-trigger, 0.1 ms sampling and 1 V of noise. */
+const slowCapture = { t0: 0, start: -0.2, interval: 1e-4, noise: 1 } as const;
+
 describe('non-exponential traces: crossing measured, no time constant invented', () => {
   test('constant-current active discharge, 600 µF from 450 V at 0.2 A ([S10] scenario, docs/DOMAIN.md §4 E4: 1.17 s)', async () => {
-    const spec: DecaySpec = {
-      shape: 'constant-current',
-      v0: 450,
-      slope: 0.2 / 600e-6,
-      t0: 0,
-      start: -0.2,
-      interval: 1e-4,
-      samples: 20001,
-      noise: 1,
-      seed: 10,
-    };
-    const { time, volts } = sampleDecay(spec);
-    const text = captureText([
-      { header: 'Time (s)', values: time },
-      { header: 'CH1 (V)', values: volts },
-    ]);
-    const result = await analyseCaptureText(text, { safeVoltage: SAFE });
-    expect(result.fit).toBe('poor');
-    expect(result.tau).toBeNull();
+    const result = await analyseNonExponential({ ...slowCapture, shape: 'constant-current', v0: 450, slope: 0.2 / 600e-6, samples: 20001, seed: 10 });
     expectWithin(result.timeToSafe, 1.17, 0.01);
     expect(result.notes.join(' ')).toMatch(/Poor exponential fit/);
   });
 
   test('a converter still drawing constant power from the bus: V² = V0² − 2·(P/C)·t (energy balance)', async () => {
     // 20 W from 470 µF at 400 V: t(60 V) = C·(V0² − Vs²)/(2·P) = 1.838 s
-    const spec: DecaySpec = {
+    const result = await analyseNonExponential({
+      ...slowCapture,
       shape: 'constant-power',
       v0: 400,
       powerPerFarad: 20 / 470e-6,
-      t0: 0,
-      start: -0.2,
-      interval: 1e-4,
       samples: 22001,
-      noise: 1,
       seed: 11,
-    };
-    const { time, volts } = sampleDecay(spec);
-    const text = captureText([
-      { header: 'Time (s)', values: time },
-      { header: 'CH1 (V)', values: volts },
-    ]);
-    const result = await analyseCaptureText(text, { safeVoltage: SAFE });
-    expect(result.fit).toBe('poor');
-    expect(result.tau).toBeNull();
+    });
     expectWithin(result.timeToSafe, (470e-6 * (400 ** 2 - 60 ** 2)) / (2 * 20), 0.01);
   });
 });

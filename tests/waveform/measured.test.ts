@@ -3,7 +3,7 @@
 import { describe, expect, test } from 'vitest';
 import { analyseCaptureText } from '../../server/evidence/waveform/reader';
 import { measuredDischargeCheck, predictedTauBand, type PredictedDecay } from '../../shared/engine/measured';
-import { captureText, sampleDecay } from './capture-generator';
+import { analyseConstantCurrent } from './expect-decay';
 import { spiceCapture, type BleederCircuit } from './spice-capture';
 
 // [S2]: the 360 V start is the design's maximum; C at its −10 % tolerance for the loading correction.
@@ -73,24 +73,7 @@ describe('measured-discharge checks from waveform evidence', () => {
 
   test('a non-exponential (constant-current) trace: crossing checked, τ comparison left out and said so', async () => {
     // [S10] scenario, docs/DOMAIN.md §4 E4: 600 µF from 450 V at 0.2 A reaches 60 V after 1.17 s.
-    const { time, volts } = sampleDecay({
-      shape: 'constant-current',
-      v0: 450,
-      slope: 0.2 / 600e-6,
-      t0: 0,
-      start: -0.1,
-      interval: 1e-4,
-      samples: 15001,
-      noise: 0.5,
-      seed: 31,
-    });
-    const analysis = await analyseCaptureText(
-      captureText([
-        { header: 'Time (s)', values: time },
-        { header: 'CH1 (V)', values: volts },
-      ]),
-      { safeVoltage: 60 },
-    );
+    const analysis = await analyseConstantCurrent(450, 31);
     // Captured from 450 V, above the 445 V maximum bus: the crossing is used as measured.
     const checks = measuredDischargeCheck(
       analysis,

@@ -6,7 +6,7 @@ import { analyseCaptureText } from '../../server/evidence/waveform/reader';
 import { measuredDischargeCheck, type MeasuredConditions, type PredictedDecay } from '../../shared/engine/measured';
 import { computeRevisionResults } from '../../shared/engine/revision-results';
 import type { WaveformAnalysis } from '../../shared/schema/waveform';
-import { captureText, sampleDecay } from './capture-generator';
+import { analyseConstantCurrent } from './expect-decay';
 import { spiceCapture, type BleederCircuit } from './spice-capture';
 
 const C = 1.32e-6; // [S2]
@@ -68,24 +68,7 @@ describe('start voltage: a capture from below the maximum bus is referred to it'
 
   test('a trace that is not a clean exponential cannot be referred: the check fails and asks for a capture from the maximum bus', async () => {
     // [S10] scenario, docs/DOMAIN.md §4 E4: a constant-current discharge, here captured from 400 V of a 450 V bus.
-    const { time, volts } = sampleDecay({
-      shape: 'constant-current',
-      v0: 400,
-      slope: 0.2 / 600e-6,
-      t0: 0,
-      start: -0.1,
-      interval: 1e-4,
-      samples: 15001,
-      noise: 0.5,
-      seed: 7,
-    });
-    const analysis = await analyseCaptureText(
-      captureText([
-        { header: 'Time (s)', values: time },
-        { header: 'CH1 (V)', values: volts },
-      ]),
-      { safeVoltage: 60 },
-    );
+    const analysis = await analyseConstantCurrent(400, 7);
     expect(analysis.fit).toBe('poor');
     const checks = measuredDischargeCheck(
       analysis,
@@ -143,24 +126,7 @@ describe('instrument loading: the measured τ is referred to the circuit without
   });
 
   test('on a trace that is not a clean exponential the loading cannot be taken out: the check fails', async () => {
-    const { time, volts } = sampleDecay({
-      shape: 'constant-current',
-      v0: 450,
-      slope: 0.2 / 600e-6,
-      t0: 0,
-      start: -0.1,
-      interval: 1e-4,
-      samples: 15001,
-      noise: 0.5,
-      seed: 8,
-    });
-    const analysis = await analyseCaptureText(
-      captureText([
-        { header: 'Time (s)', values: time },
-        { header: 'CH1 (V)', values: volts },
-      ]),
-      { safeVoltage: 60 },
-    );
+    const analysis = await analyseConstantCurrent(450, 8);
     const checks = measuredDischargeCheck(
       { ...analysis, probeResistance: 10e6 },
       { safeVoltage: 60, maxTime: 2, maxVoltage: 440, capacitanceMin: 480e-6 },

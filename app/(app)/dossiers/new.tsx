@@ -7,7 +7,7 @@ import { Button } from '../../../components/ui/button';
 import { Card } from '../../../components/ui/card';
 import { Message } from '../../../components/ui/message';
 import { Screen } from '../../../components/ui/screen';
-import { TextField } from '../../../components/ui/text-field';
+import { TextFields, type TextFieldSpec } from '../../../components/ui/text-fields';
 import { space, type } from '../../../constants/theme';
 import type { RequirementDraft } from '../../../shared/schema/discharge';
 import { dossierCreateSchema, productCreateSchema } from '../../../shared/schema/workflow';
@@ -16,6 +16,15 @@ import { useCreateDossier, useCreateProduct, useProducts } from '../../../hooks/
 
 // The limit is the user's to enter: nothing is filled in until they type it or pick a preset.
 const EMPTY_REQUIREMENT: RequirementDraft = { safeVoltage: null, maxTime: null, condition: '', reference: '' };
+
+const PRODUCT_FIELDS: ReadonlyArray<TextFieldSpec<'name' | 'modelNumber' | 'description'>> = [
+  { key: 'name', label: 'Product name', testID: 'product-name' },
+  { key: 'modelNumber', label: 'Model number', testID: 'product-model' },
+  { key: 'description', label: 'Description', testID: 'product-description' },
+];
+const DOSSIER_FIELDS: ReadonlyArray<TextFieldSpec<'title'>> = [
+  { key: 'title', label: 'Title', testID: 'dossier-title', placeholder: 'e.g. DC-link residual voltage at service access' },
+];
 
 interface Form {
   productChoice: string;
@@ -96,41 +105,16 @@ export default function NewDossierScreen() {
         />
         {errorAt('productId') ? <Message tone="error" text={errorAt('productId')!} testID="dossier-product-error" /> : null}
         {form.productChoice === NEW_PRODUCT ? (
-          <View style={styles.row}>
-            <TextField
-              label="Product name"
-              testID="product-name"
-              value={form.product.name}
-              onChangeText={(name) => edit({ product: { ...form.product, name } })}
-              error={errorAt('product.name')}
-            />
-            <TextField
-              label="Model number"
-              testID="product-model"
-              value={form.product.modelNumber}
-              onChangeText={(modelNumber) => edit({ product: { ...form.product, modelNumber } })}
-              error={errorAt('product.modelNumber')}
-            />
-            <TextField
-              label="Description"
-              testID="product-description"
-              value={form.product.description}
-              onChangeText={(description) => edit({ product: { ...form.product, description } })}
-            />
-          </View>
+          <TextFields
+            fields={PRODUCT_FIELDS}
+            value={form.product}
+            onChange={(product) => edit({ product })}
+            errorOf={(key) => errorAt(`product.${key}`)}
+          />
         ) : null}
       </Card>
       <Card title="Dossier">
-        <View style={styles.row}>
-          <TextField
-            label="Title"
-            testID="dossier-title"
-            placeholder="e.g. DC-link residual voltage at service access"
-            value={form.title}
-            onChangeText={(title) => edit({ title })}
-            error={errorAt('title')}
-          />
-        </View>
+        <TextFields fields={DOSSIER_FIELDS} value={form} onChange={({ title }) => edit({ title })} errorOf={errorAt} />
       </Card>
       <Text style={type.small}>
         The limit is yours to enter from the edition of the standard you work to; the typical requirements are starting points to verify.
@@ -153,6 +137,5 @@ export default function NewDossierScreen() {
 }
 
 const styles = StyleSheet.create({
-  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   actions: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
 });

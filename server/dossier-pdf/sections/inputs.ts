@@ -1,20 +1,19 @@
 // Section 1: the requirement in the user's words and the design inputs, labelled and formatted from
 // the shared field descriptors (the same ones the form and the diff use).
 import type { Content, TableCell } from 'pdfmake/interfaces';
+import { formatField, getPath } from '../../../shared/design-fields';
 import {
   ACTIVE_FIELDS,
   ACTIVE_MODE_WORDS,
   DESIGN_GROUPS,
-  formatField,
-  getPath,
   REQUIREMENT_FIELDS,
-  SNUBBER_KIND_FIELDS,
   SNUBBER_KIND_WORDS,
-  SNUBBER_OPERATING_FIELDS,
-  SNUBBER_PART_FIELDS,
+  SNUBBER_OTHER_FIELDS,
+  snubberFieldsOf,
+  snubberValue,
   type FieldSpec,
   type SnubberFieldSpec,
-} from '../../../shared/design-fields';
+} from '../../../shared/schema/fields';
 import type { DesignDraft } from '../../../shared/schema/discharge';
 import type { SnubberDraft } from '../../../shared/schema/snubber';
 import { COLOURS, facts, heading, HEADED, keepWithHeadings, subheading } from '../layout';
@@ -51,15 +50,16 @@ function designGroups(design: DesignDraft): Array<{ title: string; rows: Row[] }
 }
 
 function snubberRows(s: SnubberDraft): Row[] {
-  const values = s as Partial<Record<SnubberFieldSpec['key'], number | null>>;
-  const field = (f: SnubberFieldSpec): Row => [f.label, valueOf({ kind: f.kind }, values[f.key])];
+  const field = (f: SnubberFieldSpec): Row => [f.label, valueOf({ kind: f.kind }, snubberValue(s, f.key))];
   return [
-    ['Kind', SNUBBER_KIND_WORDS[s.kind]],
-    ['Location', s.location || '—'],
-    ...SNUBBER_PART_FIELDS.map(field),
-    ...SNUBBER_OPERATING_FIELDS.map(field),
-    ['Reachable after switch-off', s.accessible ? 'Yes' : 'No'],
-    ...SNUBBER_KIND_FIELDS[s.kind].filter((f) => values[f.key] != null).map(field),
+    [SNUBBER_OTHER_FIELDS.kind.label, SNUBBER_KIND_WORDS[s.kind]],
+    [SNUBBER_OTHER_FIELDS.location.label, s.location || '—'],
+    ...snubberFieldsOf(s.kind, 'parts').map(field),
+    ...snubberFieldsOf(s.kind, 'operating').map(field),
+    [SNUBBER_OTHER_FIELDS.accessible.label, s.accessible ? 'Yes' : 'No'],
+    ...snubberFieldsOf(s.kind, 'kind')
+      .filter((f) => snubberValue(s, f.key) != null)
+      .map(field),
   ];
 }
 

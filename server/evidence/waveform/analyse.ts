@@ -11,7 +11,7 @@ import { fitDecay, type DecayFit } from './decay';
 import { scanSource } from './encoding';
 import { WaveformError } from './errors';
 import { readLayout, type CaptureLayout } from './layout';
-import { readPass } from './samples';
+import { readPass, type PassResult } from './samples';
 import type { ByteSource } from './source';
 import { Summary, type Series } from './summary';
 import { findT0, refineT0, type Start } from './t0';
@@ -108,6 +108,14 @@ async function summarise(source: ByteSource, layout: CaptureLayout, channels: Ch
     notes: [...layout.notes],
     warnings: [],
   };
+  notePass(ctx, channels, pass, scale);
+  return { ctx, samples: pass.samples, skipped: pass.skipped };
+}
+
+/** What the pass met on the way (decoding, units, the probe, skipped rows), said in the analysis's notes and warnings. */
+function notePass(ctx: Context, channels: Channels, pass: PassResult, scale: number): void {
+  const { layout } = ctx;
+  const unit = layout.channelScales[channels.channel];
   const notes = ctx.notes;
   if (layout.encoding !== 'utf-8') notes.push(`The file was decoded from ${ENCODING_WORDS[layout.encoding]} text (byte-order mark).`);
   if (unit !== 1) notes.push(`"${channels.name}" values were converted to volts (×${unit}).`);
@@ -121,7 +129,6 @@ async function summarise(source: ByteSource, layout: CaptureLayout, channels: Ch
   if (pass.repeatedTimes > 0) {
     notes.push(`${pass.repeatedTimes} sample(s) repeat the previous time stamp: the export's time resolution is coarser than its sample interval.`);
   }
-  return { ctx, samples: pass.samples, skipped: pass.skipped };
 }
 
 /** A probe ratio written in the file is never applied: whether the export already holds it is unknowable from the file. */
