@@ -85,7 +85,7 @@ export async function startTestServer(
       FAKE_SMTP_PORT: '0',
       LOG_LEVEL: 'silent',
       SIGN_IN_LIMIT_PER_15_MIN: '1000',
-      ...(await backendEnv(dataDir)),
+      ...(await backendEnv(env.VOLTFALL_DATA_DIR ?? dataDir)),
       ...env,
     },
     overrides,
