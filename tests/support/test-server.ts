@@ -48,7 +48,10 @@ export interface TestServer extends RunningServer {
   stores: Record<ContentKind, ContentStore>;
   /** SHA-256 names of the objects stored in one store (folder or bucket alike). */
   storedFiles(kind: ContentKind): Promise<string[]>;
-  /** Temporary files of uploads and signings in progress in one store's staging folder. */
+  /**
+   * Temporary files of this process's uploads and signings in progress in one store's staging folder
+   * (the S3 store stages in the system's temp folder, which test files in other workers share).
+   */
   stagingFiles(kind: ContentKind): string[];
   /** A supertest agent holding the session cookie of a demo user; sends a same-origin Origin header. */
   signIn(role: DemoRole): Promise<supertest.Agent>;
@@ -116,7 +119,7 @@ export async function startTestServer(
       return (await stores[kind].list()).map((o) => o.name);
     },
     stagingFiles(kind) {
-      return readdirSync(stores[kind].stagingDir).filter((f) => f.endsWith('.part'));
+      return readdirSync(stores[kind].stagingDir).filter((f) => f.startsWith(`${process.pid}-`) && f.endsWith('.part'));
     },
     anonymous: agentFor,
     async signIn(role) {
