@@ -46,4 +46,15 @@ console.log('Building the web export for the browser tests…');
 buildWeb();
 
 const result = spawnSync('npx', ['vitest', 'run', ...process.argv.slice(2)], { stdio: 'inherit' });
-process.exit(result.status ?? 1);
+if (result.status !== 0) process.exit(result.status ?? 1);
+
+// The API suite again on PostgreSQL + S3 (tests/support/test-server.ts starts one PostgreSQL and one
+// local S3 server per test file, a database and a bucket per test server).
+if (process.argv.length <= 2) {
+  console.log('API tests on PostgreSQL + S3 (VOLTFALL_TEST_BACKEND=pg-s3)…');
+  const started = Date.now();
+  const pgPass = spawnSync('npx', ['vitest', 'run', 'tests/api'], { stdio: 'inherit', env: { ...process.env, VOLTFALL_TEST_BACKEND: 'pg-s3' } });
+  console.log(`PostgreSQL + S3 pass: ${((Date.now() - started) / 1000).toFixed(0)} s`);
+  process.exit(pgPass.status ?? 1);
+}
+process.exit(0);

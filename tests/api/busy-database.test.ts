@@ -10,7 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign } from '../support/fixtures';
 import { spawnServer } from '../support/server-process';
 import { newDraft, startTestServer, type TestServer } from '../support/test-server';
-import { holdWriteLock } from '../support/write-lock';
+import { holdPgWriteLock, holdWriteLock } from '../support/write-lock';
 
 /** A mail relay that takes each message only when the test opens the gate, and counts what it took. */
 async function gatedRelay() {
@@ -62,18 +62,20 @@ afterAll(async () => {
   await relay.close();
 });
 
-const dbFile = () => join(server.dataDir, 'voltfall.sqlite3');
+/** Another connection takes the write lock: SQLite's on the file, or PostgreSQL's advisory write lock. */
+const takeWriteLock = () =>
+  server.ctx.config.databaseUrl ? holdPgWriteLock(server.ctx.config.databaseUrl) : holdWriteLock(join(server.dataDir, 'voltfall.sqlite3'));
 
 describe('another connection holds the write lock', () => {
   it('when a write meets the lock past the busy timeout, then 503 with Retry-After and nothing saved, while reads go on', async () => {
     const { engineer, id } = await newDraft(server, 'Locked out', demoDesign);
-    const lock = await holdWriteLock(dbFile());
+    const lock = await takeWriteLock();
     try {
       const save = await engineer.patch(`/api/revisions/${id}`).send({ version: 2, notes: 'while locked' });
       expect(save.status).toBe(503);
       expect(save.body.error.code).toBe('busy');
       expect(save.headers['retry-after']).toBe('2');
-      expect(save.text).not.toMatch(/SQLITE|update `revision`/i);
+      expect(save.text).not.toMatch(/SQLITE|update `revision`|lock timeout|advisory/i);
       const read = await engineer.get(`/api/revisions/${id}`);
       expect(read.status).toBe(200);
       expect(read.body.notes).toBe('');
@@ -90,7 +92,7 @@ describe('another connection holds the write lock', () => {
     expect(submitted.status).toBe(200);
     // The mail sender has handed the message to the relay, which holds it at the gate.
     await relay.arrival;
-    const lock = await holdWriteLock(dbFile());
+    const lock = await takeWriteLock();
     try {
       relay.open();
       // The sender now records the delivery and meets the lock, more than once (its backoff: 0.5 s, 1 s …).

@@ -1,7 +1,5 @@
 // Optimistic concurrency on drafts: every stored change moves the revision's version on, and a write
 // based on an older version is refused with the revision as it is now — nothing is overwritten silently.
-import Database from 'better-sqlite3';
-import { join } from 'node:path';
 import type supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign } from '../support/fixtures';
@@ -154,19 +152,15 @@ describe('versions in the database itself', () => {
     const other = await draft('Versions in SQL, submitted');
     await other.engineer.patch(`/api/revisions/${other.id}`).send({ version: 1, design: demoDesign });
     await other.engineer.post(`/api/revisions/${other.id}/submit`);
-    const raw = new Database(join(server.dataDir, 'voltfall.sqlite3'));
-    try {
-      expect(raw.prepare('UPDATE revision SET version = version + 1 WHERE id = ?').run(id).changes).toBe(1);
-      expect(() => raw.prepare('UPDATE revision SET version = version + 1 WHERE id = ?').run(other.id)).toThrow(/frozen/);
-    } finally {
-      raw.close();
-    }
+    // SQL sent past the API (the app's own connection, SQLite or PostgreSQL).
+    expect(await server.ctx.db('revision').where({ id }).increment('version', 1)).toBe(1);
+    await expect(server.ctx.db('revision').where({ id: other.id }).increment('version', 1)).rejects.toThrow(/frozen/);
     expect(await version(engineer, id)).toBe(2);
   });
 });
 
 describe('comments belong to the review', () => {
-  it('when a revision is a draft, approved or returned, then a comment is refused with 409 (by the API and by SQLite)', async () => {
+  it('when a revision is a draft, approved or returned, then a comment is refused with 409 (by the API and by the database)', async () => {
     const reviewer = await server.signIn('reviewer');
     const early = await draft('Comment on a draft');
     expect((await early.engineer.post(`/api/revisions/${early.id}/comments`).send({ body: 'early remark' })).status).toBe(409);
@@ -189,16 +183,9 @@ describe('comments belong to the review', () => {
 
     const comments = (await reviewer.get(`/api/revisions/${approved.id}`)).body.comments;
     expect(comments.map((c: { body: string }) => c.body)).toEqual(['Which TCR corner?']);
-    const raw = new Database(join(server.dataDir, 'voltfall.sqlite3'));
-    try {
-      const author = raw.prepare("SELECT id FROM user WHERE email = 'reviewer@fennel.test'").get() as { id: string };
-      expect(() =>
-        raw
-          .prepare("INSERT INTO review_comment (revision_id, author_id, body, created_at) VALUES (?, ?, 'sql remark', 'now')")
-          .run(approved.id, author.id),
-      ).toThrow(/frozen/);
-    } finally {
-      raw.close();
-    }
+    const author = await server.ctx.db('user').where({ email: 'reviewer@fennel.test' }).first('id');
+    await expect(
+      server.ctx.db('review_comment').insert({ revision_id: approved.id, author_id: author.id, body: 'sql remark', created_at: 'now' }),
+    ).rejects.toThrow(/frozen/);
   });
 });

@@ -3,7 +3,7 @@
 // draft. Checked with poppler's pdfsig (trusting the roots the API publishes, through certutil),
 // pdftotext and qpdf, tools independent of the code that wrote the PDF.
 import { createHash } from 'node:crypto';
-import { readdirSync, writeFileSync } from 'node:fs';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -135,7 +135,7 @@ describe('dossier PDF through the API', () => {
 
   it('when two approvals of one revision race, then one wins with its signed PDF, the other gets 409 and its PDF is discarded', async () => {
     const { reviewer, id } = await revisionInReview('Race story');
-    const filesBefore = readdirSync(join(server.dataDir, 'dossiers')).length;
+    const filesBefore = (await server.storedFiles('dossiers')).length;
 
     const body = { decision: 'approve', comment: 'Race.', password: 'voltfall-demo' };
     const answers = await Promise.all([
@@ -147,8 +147,8 @@ describe('dossier PDF through the API', () => {
     const rows = await server.ctx.db('signed_dossier').where({ revision_id: id });
     expect(rows).toHaveLength(1);
     expect(await server.ctx.db('review_decision').where({ revision_id: id })).toHaveLength(1);
-    const files = readdirSync(join(server.dataDir, 'dossiers'));
-    expect(files.filter((f) => f.endsWith('.part'))).toEqual([]);
+    const files = await server.storedFiles('dossiers');
+    expect(server.stagingFiles('dossiers')).toEqual([]);
     expect(files).toHaveLength(filesBefore + 1);
     expect(files).toContain(rows[0].sha256);
   });
@@ -169,6 +169,6 @@ describe('dossier PDF through the API', () => {
     expect((await engineer.get(`/api/revisions/${id}`)).body.status).toBe('in_review');
     expect(await server.ctx.db('review_decision').where({ revision_id: id })).toHaveLength(0);
     expect(await server.ctx.db('signed_dossier').where({ revision_id: id })).toHaveLength(0);
-    expect(readdirSync(join(server.dataDir, 'dossiers')).filter((f) => f.endsWith('.part'))).toEqual([]);
+    expect(server.stagingFiles('dossiers')).toEqual([]);
   });
 });

@@ -1,7 +1,6 @@
 // Downloads are what their bytes are: served with the media type sniffed at upload from an allow-list,
 // always as an attachment with nosniff, with the file name kept as typed (RFC 6266 / 5987 encoded);
 // authenticated answers are never cached.
-import Database from 'better-sqlite3';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -66,12 +65,7 @@ describe('media types of downloads', () => {
 
   it('when a stored row claims a type outside the allow-list, then it is still served as a byte stream', async () => {
     const stored = await upload(Buffer.from('plain words'), 'legacy.txt');
-    const raw = new Database(join(server.dataDir, 'voltfall.sqlite3'));
-    try {
-      raw.prepare("UPDATE evidence SET media_type = 'text/html' WHERE id = ?").run(stored.id);
-    } finally {
-      raw.close();
-    }
+    await server.ctx.db('evidence').where({ id: stored.id }).update({ media_type: 'text/html' });
     const res = await binary(engineer.get(`/api/evidence/${stored.id}/file`));
     expect(res.headers['content-type']).toBe('application/octet-stream');
   });

@@ -1,6 +1,4 @@
-import { existsSync, readdirSync } from 'node:fs';
 import { request as httpRequest } from 'node:http';
-import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement } from '../support/fixtures';
 import { saveDraft, startTestServer, type TestServer } from '../support/test-server';
@@ -31,8 +29,8 @@ async function draft(title: string) {
   return { engineer, id };
 }
 
-const evidenceFiles = () => readdirSync(join(server.dataDir, 'evidence')).filter((f) => f !== 'tmp');
-const tmpFiles = () => readdirSync(join(server.dataDir, 'evidence', 'tmp'));
+const evidenceFiles = () => server.storedFiles('evidence');
+const tmpFiles = () => server.stagingFiles('evidence');
 
 describe('evidence uploads', () => {
   it('when a capture is uploaded to a draft, then it is analysed and a measured check joins the verdict', async () => {
@@ -51,7 +49,7 @@ describe('evidence uploads', () => {
     const measured = rev.results.checks.find((c: { id: string }) => c.id === `measured-discharge:${res.body.sha256.slice(0, 12)}`);
     expect(measured).toBeTruthy();
     expect(measured.pass).toBe(true);
-    expect(existsSync(join(server.dataDir, 'evidence', res.body.sha256))).toBe(true);
+    expect(await evidenceFiles()).toContain(res.body.sha256);
   });
 
   it('when the engineer names the voltage and marker channels, then those are the ones analysed', async () => {
@@ -101,12 +99,12 @@ describe('evidence uploads', () => {
     const a = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', body, 'a.csv');
     const b = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'waveform').attach('file', body, 'b.csv');
     expect(a.body.sha256).toBe(b.body.sha256);
-    expect(evidenceFiles().filter((f) => f === a.body.sha256)).toHaveLength(1);
+    expect((await evidenceFiles()).filter((f) => f === a.body.sha256)).toHaveLength(1);
   });
 
   it('when bad files arrive, then each gets a clear message and nothing is left behind', async () => {
     const { engineer, id } = await draft('Bad files');
-    const before = evidenceFiles().length;
+    const before = (await evidenceFiles()).length;
     const cases: Array<[string, Buffer, string, number, RegExp]> = [
       ['waveform', Buffer.alloc(0), 'empty.csv', 422, /empty/i],
       [
@@ -128,7 +126,7 @@ describe('evidence uploads', () => {
     }
     const rev = (await engineer.get(`/api/revisions/${id}`)).body;
     expect(rev.evidence).toHaveLength(0);
-    expect(evidenceFiles().length).toBe(before);
+    expect((await evidenceFiles()).length).toBe(before);
     expect(tmpFiles()).toEqual([]);
   });
 
@@ -160,7 +158,7 @@ describe('evidence uploads', () => {
 
   it('when a binary export is uploaded as a capture, then 422 on the file field names the text formats to export instead', async () => {
     const { engineer, id } = await draft('Binary exports');
-    const before = evidenceFiles().length;
+    const before = (await evidenceFiles()).length;
     const record = Buffer.from(new Float32Array(4096).map((_, i) => 400 * Math.exp(-(i + 1) / 900) + (i % 7) * 0.01).buffer);
     const cases: Array<[string, Buffer]> = [
       // A header with NUL padding, then float samples: what a binary scope record looks like.
@@ -181,7 +179,7 @@ describe('evidence uploads', () => {
       ).toEqual(['file']);
     }
     expect((await engineer.get(`/api/revisions/${id}`)).body.evidence).toHaveLength(0);
-    expect(evidenceFiles().length).toBe(before);
+    expect((await evidenceFiles()).length).toBe(before);
     expect(tmpFiles()).toEqual([]);
   });
 

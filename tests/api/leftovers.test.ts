@@ -3,7 +3,7 @@
 // one that a submitted revision references.
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, utimesSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, utimesSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -17,12 +17,11 @@ beforeAll(async () => {
 });
 afterAll(() => server.close());
 
-const tmpDir = (dataDir: string) => join(dataDir, 'evidence', 'tmp');
-const tmpFiles = (dataDir: string) => readdirSync(tmpDir(dataDir));
+const tmpFiles = (of: TestServer) => of.stagingFiles('evidence');
 
-async function until(condition: () => boolean, what: string, timeoutMs = 10_000) {
+async function until(condition: () => boolean | Promise<boolean>, what: string, timeoutMs = 10_000) {
   const deadline = Date.now() + timeoutMs;
-  while (!condition()) {
+  while (!(await condition())) {
     if (Date.now() > deadline) throw new Error(`timed out waiting until ${what}`);
     await new Promise((r) => setTimeout(r, 25));
   }
@@ -42,16 +41,17 @@ const hoursAgo = (file: string, hours: number) => {
 describe('temporary files', () => {
   it("when the server starts on a folder with leftovers of a crashed process, then they are removed and a live worker's upload is kept", async () => {
     const dataDir = mkdtempSync(join(tmpdir(), 'vf-restart-'));
-    await (await startTestServer({}, {}, { dataDir })).close();
+    const first = await startTestServer({}, {}, { dataDir });
+    const { evidence, dossiers } = first.stores;
+    await first.close();
     const dead = deadPid();
     const leftovers = [
-      join(tmpDir(dataDir), `${dead}-1700000000000-0123456789abcdef.part`),
-      join(tmpDir(dataDir), `${process.pid}-1700000000000-fedcba9876543210.part`),
-      join(dataDir, 'dossiers', `${dead}-1700000000000-00112233aabbccdd.part`),
+      join(evidence.stagingDir, `${dead}-1700000000000-0123456789abcdef.part`),
+      join(evidence.stagingDir, `${process.pid}-1700000000000-fedcba9876543210.part`),
+      join(dossiers.stagingDir, `${dead}-1700000000000-00112233aabbccdd.part`),
     ];
     // pid 1 is alive: a worker of a cluster in the middle of its upload.
-    const live = join(tmpDir(dataDir), '1-1700000000000-aaaaaaaaaaaaaaaa.part');
-    mkdirSync(join(dataDir, 'dossiers'), { recursive: true });
+    const live = join(evidence.stagingDir, '1-1700000000000-aaaaaaaaaaaaaaaa.part');
     for (const f of [...leftovers, live]) writeFileSync(f, 'half an upload');
 
     const restarted = await startTestServer({}, {}, { dataDir });
@@ -74,9 +74,9 @@ describe('temporary files', () => {
     const cookie = await sessionCookie(server.url, 'engineer@fennel.test');
     const upload = startSlowUpload(server.url, id, cookie, 50 * 1024 * 1024);
     await upload.send(2 * 1024 * 1024);
-    await until(() => tmpFiles(server.dataDir).length === 1, 'the upload has a temporary file');
+    await until(() => tmpFiles(server).length === 1, 'the upload has a temporary file');
     upload.req.destroy();
-    await until(() => tmpFiles(server.dataDir).length === 0, 'the temporary file is gone');
+    await until(() => tmpFiles(server).length === 0, 'the temporary file is gone');
     expect((await server.anonymous().get('/api/health')).body).toEqual({ ok: true });
     const engineer = await server.signIn('engineer');
     expect((await engineer.get(`/api/revisions/${id}`)).body.evidence).toEqual([]);
@@ -90,9 +90,9 @@ describe('temporary files', () => {
       const cookie = await sessionCookie(own.url, 'engineer@fennel.test');
       const upload = startSlowUpload(own.url, id, cookie, 50 * 1024 * 1024);
       await upload.send(2 * 1024 * 1024);
-      await until(() => tmpFiles(dataDir).length === 1, 'the upload has a temporary file');
+      await until(() => tmpFiles(own).length === 1, 'the upload has a temporary file');
       await own.close();
-      await until(() => tmpFiles(dataDir).length === 0, 'the temporary file is gone');
+      await until(() => tmpFiles(own).length === 0, 'the temporary file is gone');
     } finally {
       rmSync(dataDir, { recursive: true, force: true });
     }
@@ -105,7 +105,7 @@ describe('temporary files', () => {
     const res = await upload.finish();
     expect(res.status, res.body).toBe(201);
     expect(JSON.parse(res.body).analysis.samples).toBe(upload.rows());
-    expect(tmpFiles(server.dataDir)).toEqual([]);
+    expect(tmpFiles(server)).toEqual([]);
     expect((await engineer.get(`/api/revisions/${id}`)).body.evidence).toHaveLength(1);
   });
 });
@@ -114,10 +114,10 @@ describe('stored files nobody references', () => {
   it('when a draft removes its only reference to a file, then the file stays through the grace period and goes after it', async () => {
     const { engineer, id } = await newDraft(server, 'Released file', demoDesign);
     const added = await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'other').attach('file', Buffer.from('released bytes'), 'r.txt');
-    const file = join(server.dataDir, 'evidence', added.body.sha256);
+    const stored = async () => (await server.storedFiles('evidence')).includes(added.body.sha256);
     await engineer.delete(`/api/evidence/${added.body.id}`);
     expect(await server.housekeeping.sweep(false)).toMatchObject({ orphanEvidence: 0 });
-    expect(existsSync(file)).toBe(true);
+    expect(await stored()).toBe(true);
 
     // A day and a bit later (the default grace period is 24 h).
     await server.ctx
@@ -125,7 +125,7 @@ describe('stored files nobody references', () => {
       .where({ sha256: added.body.sha256 })
       .update({ released_at: new Date(Date.now() - 25 * 3600_000).toISOString() });
     expect(await server.housekeeping.sweep(false)).toMatchObject({ orphanEvidence: 1 });
-    expect(existsSync(file)).toBe(false);
+    expect(await stored()).toBe(false);
   });
 
   it('when the same bytes are attached again within the grace period, then the file is in use again and stays', async () => {
@@ -136,7 +136,7 @@ describe('stored files nobody references', () => {
     await engineer.post(`/api/revisions/${id}/evidence`).field('kind', 'other').attach('file', bytes, 'a-again.txt');
     await server.ctx.db('evidence_release').update({ released_at: new Date(0).toISOString() });
     await server.housekeeping.sweep(false);
-    expect(existsSync(join(server.dataDir, 'evidence', first.body.sha256))).toBe(true);
+    expect(await server.storedFiles('evidence')).toContain(first.body.sha256);
   });
 
   it('when a submitted revision references a file that a later draft drops, then the file is never removed', async () => {
@@ -153,7 +153,7 @@ describe('stored files nobody references', () => {
     await engineer.delete(`/api/evidence/${copied.id}`);
     await server.ctx.db('evidence_release').update({ released_at: new Date(0).toISOString() });
     await server.housekeeping.sweep(false);
-    expect(existsSync(join(server.dataDir, 'evidence', added.body.sha256))).toBe(true);
+    expect(await server.storedFiles('evidence')).toContain(added.body.sha256);
     const download = await engineer.get(`/api/evidence/${added.body.id}/file`);
     expect(download.status).toBe(200);
   });
@@ -161,11 +161,11 @@ describe('stored files nobody references', () => {
   it('when a file was placed but its row never committed, then the next sweep removes it at once', async () => {
     const bytes = Buffer.from('placed by an upload that was killed before its commit');
     const sha = createHash('sha256').update(bytes).digest('hex');
-    writeFileSync(join(server.dataDir, 'evidence', sha), bytes);
+    await server.stores.evidence.putBytes(sha, bytes);
     const signed = createHash('sha256').update('an approval that never committed').digest('hex');
-    writeFileSync(join(server.dataDir, 'dossiers', signed), 'pdf bytes');
+    await server.stores.dossiers.putBytes(signed, Buffer.from('pdf bytes'));
     expect(await server.housekeeping.sweep(false)).toMatchObject({ orphanEvidence: 1, orphanSignedDossiers: 1 });
-    expect(existsSync(join(server.dataDir, 'evidence', sha))).toBe(false);
-    expect(existsSync(join(server.dataDir, 'dossiers', signed))).toBe(false);
+    expect(await server.storedFiles('evidence')).not.toContain(sha);
+    expect(await server.storedFiles('dossiers')).not.toContain(signed);
   });
 });

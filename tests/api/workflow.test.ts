@@ -1,5 +1,3 @@
-import Database from 'better-sqlite3';
-import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoDesign, demoRequirement, failingDesign } from '../support/fixtures';
 import { DEMO_PASSWORD, saveDraft, startTestServer, type TestServer } from '../support/test-server';
@@ -224,25 +222,21 @@ describe('separation of duties and permissions', () => {
 });
 
 describe('frozen in the database itself', () => {
-  it('when someone updates or deletes a submitted revision with SQL, then SQLite refuses', async () => {
+  it('when someone updates or deletes a submitted revision with SQL, then the database refuses', async () => {
     const { engineer, draftId } = await newDossier('Direct SQL');
     await saveDraft(engineer, draftId, { design: demoDesign });
     await engineer.post(`/api/revisions/${draftId}/submit`);
-    const raw = new Database(join(server.dataDir, 'voltfall.sqlite3'));
-    try {
-      expect(() => raw.prepare("UPDATE revision SET notes = 'tampered' WHERE id = ?").run(draftId)).toThrow(/frozen/);
-      expect(() => raw.prepare("UPDATE revision SET status = 'draft' WHERE id = ?").run(draftId)).toThrow(/frozen/);
-      expect(() => raw.prepare('DELETE FROM revision WHERE id = ?').run(draftId)).toThrow(/frozen/);
-      expect(() =>
-        raw
-          .prepare(
-            "INSERT INTO evidence (revision_id, kind, original_name, media_type, size, sha256, storage_key, uploaded_by, uploaded_at) VALUES (?, 'other', 'x', 'text/plain', 1, 'x', 'x', 'x', 'x')",
-          )
-          .run(draftId),
-      ).toThrow(/frozen/);
-    } finally {
-      raw.close();
-    }
+    // SQL sent past the API (the app's own connection, SQLite or PostgreSQL): the triggers refuse it.
+    const db = server.ctx.db;
+    await expect(db.raw("UPDATE revision SET notes = 'tampered' WHERE id = ?", [draftId])).rejects.toThrow(/frozen/);
+    await expect(db.raw("UPDATE revision SET status = 'draft' WHERE id = ?", [draftId])).rejects.toThrow(/frozen/);
+    await expect(db.raw('DELETE FROM revision WHERE id = ?', [draftId])).rejects.toThrow(/frozen/);
+    await expect(
+      db.raw(
+        "INSERT INTO evidence (revision_id, kind, original_name, media_type, size, sha256, storage_key, uploaded_by, uploaded_at) VALUES (?, 'other', 'x', 'text/plain', 1, 'x', 'x', 'x', 'x')",
+        [draftId],
+      ),
+    ).rejects.toThrow(/frozen/);
   });
 });
 
@@ -255,15 +249,12 @@ describe('audit trail', () => {
     expect(ok.body.verified).toBe(true);
     expect(ok.body.events.map((e: { action: string }) => e.action)).toEqual(['dossier.create', 'revision.create']);
 
-    const raw = new Database(join(server.dataDir, 'voltfall.sqlite3'));
     const target = ok.body.events[0].id;
-    try {
-      // Someone with write access to the file removes the guard trigger and rewrites history.
-      raw.exec('DROP TRIGGER audit_event_no_update');
-      raw.prepare('UPDATE audit_event SET payload = \'{"title":"forged"}\' WHERE id = ?').run(target);
-    } finally {
-      raw.close();
-    }
+    // Someone with write access to the database removes the guard trigger and rewrites history.
+    await server.ctx.db.raw(
+      server.ctx.db.client.dialect === 'postgresql' ? 'DROP TRIGGER audit_event_no_update ON audit_event' : 'DROP TRIGGER audit_event_no_update',
+    );
+    await server.ctx.db.raw('UPDATE audit_event SET payload = \'{"title":"forged"}\' WHERE id = ?', [target]);
     const broken = await reviewer.get(`/api/audit?dossierId=${dossier.id}`);
     expect(broken.body.verified).toBe(false);
     expect(broken.body.firstBroken.id).toBe(target);

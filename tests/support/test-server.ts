@@ -1,11 +1,12 @@
 // Starts the real server in-process on a fresh data folder: a real SQLite file, the real local SMTP
 // fake on a free loopback port, the real mail sender.
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import supertest from 'supertest';
 import { loadConfig, type Config } from '../../server/config';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../server/db/seed';
+import { openContentStore, type ContentKind, type ContentStore } from '../../server/evidence/storage';
 import { startServer, type RunningServer, type StartOptions } from '../../server/server';
 import { demoRequirement } from './fixtures';
 import { createDatabase, startPostgres, type PostgresServer } from './postgres';
@@ -43,6 +44,15 @@ export const demoEmail = (role: DemoRole) => `${role}@fennel.test`;
 
 export interface TestServer extends RunningServer {
   dataDir: string;
+  /** The server's content stores (its evidence folder or bucket), as the server opens them. */
+  stores: Record<ContentKind, ContentStore>;
+  /** SHA-256 names of the objects stored in one store (folder or bucket alike). */
+  storedFiles(kind: ContentKind): Promise<string[]>;
+  /**
+   * Temporary files of this process's uploads and signings in progress in one store's staging folder
+   * (the S3 store stages in the system's temp folder, which test files in other workers share).
+   */
+  stagingFiles(kind: ContentKind): string[];
   /** A supertest agent holding the session cookie of a demo user; sends a same-origin Origin header. */
   signIn(role: DemoRole): Promise<supertest.Agent>;
   anonymous(): supertest.Agent;
@@ -85,7 +95,7 @@ export async function startTestServer(
       FAKE_SMTP_PORT: '0',
       LOG_LEVEL: 'silent',
       SIGN_IN_LIMIT_PER_15_MIN: '1000',
-      ...(await backendEnv(dataDir)),
+      ...(await backendEnv(env.VOLTFALL_DATA_DIR ?? dataDir)),
       ...env,
     },
     overrides,
@@ -97,9 +107,20 @@ export async function startTestServer(
     agent.set('Origin', origin);
     return agent;
   };
+  const stores: Record<ContentKind, ContentStore> = {
+    evidence: openContentStore(config, 'evidence'),
+    dossiers: openContentStore(config, 'dossiers'),
+  };
   return {
     ...running,
     dataDir,
+    stores,
+    async storedFiles(kind) {
+      return (await stores[kind].list()).map((o) => o.name);
+    },
+    stagingFiles(kind) {
+      return readdirSync(stores[kind].stagingDir).filter((f) => f.startsWith(`${process.pid}-`) && f.endsWith('.part'));
+    },
     anonymous: agentFor,
     async signIn(role) {
       const agent = agentFor();

@@ -2,6 +2,8 @@
 // a separate process that runs BEGIN IMMEDIATE on the same file and commits only when told to.
 import { spawn } from 'node:child_process';
 import { resolve } from 'node:path';
+import pg from 'pg';
+import { WRITE_LOCK_KEY } from '../../server/db/knex';
 
 const HOLDER = `
 const Database = require('better-sqlite3');
@@ -34,6 +36,22 @@ export async function holdWriteLock(dbFile: string): Promise<HeldLock> {
     async release() {
       child.stdin!.write('go\n');
       await exited;
+    },
+  };
+}
+
+/**
+ * PostgreSQL's counterpart: another session holds the advisory lock every write transaction takes when
+ * it begins (server/db/knex.ts), as a long maintenance transaction would.
+ */
+export async function holdPgWriteLock(url: string): Promise<HeldLock> {
+  const client = new pg.Client({ connectionString: url });
+  await client.connect();
+  await client.query(`BEGIN; SELECT pg_advisory_xact_lock(${WRITE_LOCK_KEY});`);
+  return {
+    async release() {
+      await client.query('COMMIT');
+      await client.end();
     },
   };
 }
