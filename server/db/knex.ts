@@ -81,13 +81,25 @@ export const WRITE_LOCK_KEY = 7_317_001;
 
 const PgTransaction = require('knex/lib/dialects/postgres/execution/pg-transaction') as new (...args: unknown[]) => {
   query(conn: unknown, sql: string): Promise<unknown>;
+  trxClient: { query(conn: unknown, sql: string): Promise<unknown> };
+  _completed: boolean;
+  _rejecter(err: unknown): void;
 };
 const PgClient = require('knex/lib/dialects/postgres') as new (config: Knex.Config) => object;
 
 function pgClient() {
   class WriteLockTransaction extends PgTransaction {
-    begin(conn: unknown) {
-      return this.query(conn, `BEGIN; SELECT pg_advisory_xact_lock(${WRITE_LOCK_KEY});`);
+    async begin(conn: unknown) {
+      try {
+        await this.trxClient.query(conn, `BEGIN; SELECT pg_advisory_xact_lock(${WRITE_LOCK_KEY});`);
+      } catch (err) {
+        // A lock wait that timed out leaves the connection in an aborted transaction: end it before the
+        // connection goes back to the pool, or every later query on it fails. Then fail the transaction
+        // the way Knex fails one whose BEGIN failed.
+        await this.trxClient.query(conn, 'ROLLBACK').catch(() => undefined);
+        this._completed = true;
+        this._rejecter(err);
+      }
     }
   }
   return class PostgresClient extends PgClient {
