@@ -12,7 +12,7 @@ import { Housekeeping } from './housekeeping/sweep';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { MailSender } from './mail/mailer';
 
-export interface PrimaryWork {
+interface PrimaryWork {
   fakeSmtp: FakeSmtp | null;
   mail: MailSender;
   housekeeping: Housekeeping;
@@ -20,7 +20,7 @@ export interface PrimaryWork {
 }
 
 /** What the expiry sweep needs: the session and throttle stores and a log. */
-export interface Expiring {
+interface Expiring {
   sessions: Sessions;
   throttle: Throttle;
   log: Logger;
