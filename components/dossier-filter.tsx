@@ -23,12 +23,13 @@ interface Props {
   onChange: (filter: DossierListFilter) => void;
 }
 
-/** Words for the filters in force, e.g. "DC-link 7 (DL-7) · In review"; null when none is. */
+/** Words for the filters in force, e.g. "Showing DC-link 7 (DL-7) with the latest revision awaiting review."; null when none is. */
 function describe(products: readonly Product[], productId: string, status: StatusChoice): string | null {
   const product = products.find((p) => String(p.id) === productId);
-  const parts = [product ? `${product.name} (${product.modelNumber})` : null, status === ANY ? null : `latest revision ${STATUS_WORDS[status]}`];
-  const shown = parts.filter(Boolean);
-  return shown.length ? shown.join(' · ') : null;
+  if (!product && status === ANY) return null;
+  const which = product ? `${product.name} (${product.modelNumber})` : 'dossiers';
+  const state = status === ANY ? '' : ` with the latest revision ${STATUS_WORDS[status].toLowerCase()}`;
+  return `Showing ${which}${state}.`;
 }
 
 /**
@@ -86,7 +87,7 @@ export function DossierFilter({ products, withStatus, onChange }: Props) {
       </View>
       {inForce ? (
         <Text style={type.small} testID="dossier-filter-summary">
-          Only {inForce}.
+          {inForce}
         </Text>
       ) : null}
       {open ? (

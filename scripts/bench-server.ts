@@ -1,12 +1,16 @@
 // Capacity of the real server on this machine (issue 13). Starts `server/index.ts` (the cluster, as
 // `npm start` runs it) on a temporary data folder and a bare Express JSON route beside it, seeds 100
 // and then 10 000 dossiers, and prints each figure with its target. Throughput is a ratio to the bare
-// route measured in the same run, so it means the same on a loaded machine.
-// Run: node --import tsx scripts/bench-server.ts  (BENCH_MIXED_SECONDS shortens the 60 s mixed run)
+// route measured in the same run, so it means the same on a loaded machine. It runs twice: on SQLite
+// with the evidence folder, then on PostgreSQL with an S3 bucket (a real PostgreSQL 15 and s3rver, as
+// the tests start them), and prints the two columns side by side.
+// Run: node --import tsx scripts/bench-server.ts
+//   BENCH_BACKENDS=sqlite or pg-s3 runs one; BENCH_SHORT=1 (a check that it works, not a measurement)
+//   runs every step for a second or two; BENCH_MIXED_SECONDS sets the mixed run (60 s, 3 s short).
 import { spawn, type ChildProcess } from 'node:child_process';
 import { randomUUID } from 'node:crypto';
-import { closeSync, mkdtempSync, openSync, readFileSync, rmSync } from 'node:fs';
-import { availableParallelism, tmpdir } from 'node:os';
+import { closeSync, mkdirSync, mkdtempSync, openSync, readFileSync, rmSync } from 'node:fs';
+import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import autocannon from 'autocannon';
 import { hashPassword } from '../server/auth/passwords';
@@ -17,22 +21,37 @@ import { resultColumns } from '../server/revisions/store';
 import { computeDischarge } from '../shared/engine';
 import { dossierListQuerySchema } from '../shared/schema/lists';
 import { demoDesign, demoRequirement, failingDesign } from '../tests/support/fixtures';
+import { createDatabase, startPostgres } from '../tests/support/postgres';
+import { createBucket, s3Env, startS3 } from '../tests/support/s3';
 
-const MIXED_SECONDS = Number(process.env.BENCH_MIXED_SECONDS ?? 60);
-const SESSIONS = 200;
-const ROUNDS = 2;
-const ROUND_SECONDS = 5;
+const SHORT = process.env.BENCH_SHORT === '1';
+const MIXED_SECONDS = Number(process.env.BENCH_MIXED_SECONDS ?? (SHORT ? 3 : 60));
+const SESSIONS = SHORT ? 20 : 200;
+const ROUNDS = SHORT ? 1 : 2;
+const ROUND_SECONDS = SHORT ? 1 : 5;
+const READ_SECONDS = SHORT ? 2 : 10;
+const LIST_CALLS = SHORT ? 30 : 300;
+type Backend = 'sqlite' | 'pg-s3';
+const BACKENDS = (process.env.BENCH_BACKENDS ?? 'sqlite,pg-s3').split(',').map((b) => b.trim()) as Backend[];
+const TITLES: Record<Backend, string> = { sqlite: 'SQLite + folder', 'pg-s3': 'PostgreSQL + S3' };
 
-const dir = mkdtempSync(join(tmpdir(), 'vf-bench-server-'));
+const top = mkdtempSync(join(tmpdir(), 'vf-bench-server-'));
 const children: ChildProcess[] = [];
-const rows: Array<[string, string, string, string]> = [];
+const stops: Array<() => Promise<void>> = [];
+
+interface Row {
+  figure: string;
+  target: string;
+  met: string;
+}
+let rows = new Map<string, Row>();
 const report = (what: string, figure: string, target: string, met: boolean | null) => {
-  rows.push([what, figure, target, met === null ? '' : met ? 'met' : 'NOT MET']);
+  rows.set(what, { figure, target, met: met === null ? '' : met ? 'met' : 'NOT MET' });
   console.log(`  ${what}: ${figure}${target ? `  (target ${target}: ${met ? 'met' : 'NOT MET'})` : ''}`);
 };
 
 /** Starts a node child with its stdout in a file and resolves with the first stdout text matching `ready`. */
-async function startChild(args: string[], env: Record<string, string>, name: string, ready: RegExp): Promise<RegExpExecArray> {
+async function startChild(dir: string, args: string[], env: Record<string, string>, name: string, ready: RegExp): Promise<RegExpExecArray> {
   const logFile = join(dir, `${name}.log`);
   const fd = openSync(logFile, 'w');
   const child = spawn(process.execPath, args, { env: { ...process.env, ...env }, stdio: ['ignore', fd, 'inherit'] });
@@ -127,6 +146,28 @@ async function signIn(base: string, email: string): Promise<string> {
 const errorsOf = (r: autocannon.Result) => r.errors + r.non2xx;
 const run = (options: autocannon.Options) => autocannon(options);
 
+/**
+ * Where the server keeps its data: the SQLite file and folder in `dir`, or a fresh PostgreSQL server and
+ * bucket. `database(name)` opens another empty database of the same kind (the small list-query one).
+ */
+async function backendOf(backend: Backend, dir: string): Promise<{ env: Record<string, string>; open: (name?: string) => Promise<Db> }> {
+  if (backend === 'sqlite') return { env: {}, open: async (name) => openDatabase(name ? join(dir, name) : dir, { migrate: name !== undefined }) };
+  const [pg, s3] = await Promise.all([startPostgres(), startS3()]);
+  stops.push(
+    () => s3.stop(),
+    () => pg.stop(),
+  );
+  await createDatabase(pg, 'bench');
+  await createBucket(s3.endpoint, 'bench');
+  return {
+    env: { DATABASE_URL: pg.urlOf('bench'), ...s3Env(s3.endpoint, 'bench') },
+    open: async (name) => {
+      if (name) await createDatabase(pg, name);
+      return openDatabase(dir, { url: pg.urlOf(name ?? 'bench'), migrate: name !== undefined });
+    },
+  };
+}
+
 /** Alternates the two runs ROUNDS times so both see the same machine load; answers the mean req/s and the worse p99. */
 async function alternate(a: autocannon.Options, b: autocannon.Options) {
   const got = { a: [] as autocannon.Result[], b: [] as autocannon.Result[] };
@@ -143,17 +184,18 @@ async function alternate(a: autocannon.Options, b: autocannon.Options) {
   return { a: sum(got.a), b: sum(got.b) };
 }
 
-try {
-  const workers = Number(process.env.WEB_CONCURRENCY ?? availableParallelism());
-  console.log(
-    `Voltfall server benchmark: ${workers} worker(s), ${availableParallelism()} CPU(s), load average ${(await import('node:os'))
-      .loadavg()
-      .map((l) => l.toFixed(1))
-      .join(' ')}`,
-  );
+/** One whole run on one back end; answers its figures by name. */
+async function benchOn(backend: Backend, workers: number): Promise<Map<string, Row>> {
+  rows = new Map();
+  const dir = join(top, backend);
+  mkdirSync(dir);
+  const data = await backendOf(backend, dir);
+  console.log(`\n=== ${TITLES[backend]} ===`);
   const [, port] = await startChild(
+    dir,
     ['--import', 'tsx', 'server/index.ts'],
     {
+      ...data.env,
       NODE_ENV: 'development',
       PORT: '0',
       HOST: '127.0.0.1',
@@ -166,10 +208,10 @@ try {
     /"port":(\d+),"workers"|"port":(\d+),"dataDir"/,
   ).then((m) => [m[0], m[1] ?? m[2]]);
   const base = `http://127.0.0.1:${port}`;
-  const [, barePort] = await startChild(['--import', 'tsx', 'scripts/bare-express.ts'], {}, 'bare', /^(\d+)\n/);
+  const [, barePort] = await startChild(dir, ['--import', 'tsx', 'scripts/bare-express.ts'], {}, 'bare', /^(\d+)\n/);
   const bare: autocannon.Options = { url: `http://127.0.0.1:${barePort}/json`, connections: 64 };
 
-  const db = await openDatabase(dir, { migrate: false });
+  const db = await data.open();
   const engineer = await db('user').where({ email: 'engineer@fennel.test' }).first('id');
   const product = await db('product').orderBy('id').first('id');
   const cookie = await signIn(base, 'engineer@fennel.test');
@@ -199,13 +241,13 @@ try {
   );
   // The list query itself, on a second data folder of 100 dossiers, alternating call by call with the
   // 10 000 one so both see the same load.
-  const small = await openDatabase(join(dir, 'small'));
+  const small = await data.open('small');
   await seedDemo(small);
   const smallAuthor = await small('user').where({ email: 'engineer@fennel.test' }).first('id');
   await seedDossiers(small, 100, smallAuthor.id, (await small('product').orderBy('id').first('id')).id);
   const firstPage = dossierListQuerySchema.parse({});
   const times: Record<'small' | 'large', number[]> = { small: [], large: [] };
-  for (let i = 0; i < 300; i += 1) {
+  for (let i = 0; i < LIST_CALLS; i += 1) {
     for (const [key, target] of [
       ['small', small],
       ['large', db],
@@ -218,7 +260,7 @@ try {
   const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
   const queryRatio = median(times.large) / median(times.small);
   report(
-    'dossier list query, median of 300 calls each',
+    `dossier list query, median of ${LIST_CALLS} calls each`,
     `${median(times.small).toFixed(2)} ms at 100, ${median(times.large).toFixed(2)} ms at 10 000: ${queryRatio.toFixed(2)}×`,
     'same cost (≤ 1.5×)',
     queryRatio <= 1.5,
@@ -246,7 +288,7 @@ try {
   // 200 connections reading one revision (with its full results).
   console.log('\nreading a revision, 200 connections');
   const revision = await db('revision').where({ status: 'approved' }).orderBy('id', 'desc').first('id');
-  const read = await run({ url: `${base}/api/revisions/${revision.id}`, connections: 200, headers, duration: 10 });
+  const read = await run({ url: `${base}/api/revisions/${revision.id}`, connections: 200, headers, duration: READ_SECONDS });
   report('revision read p99', `${read.latency.p99} ms (${read.requests.average.toFixed(0)} req/s)`, '≤ 500 ms', read.latency.p99 <= 500);
   report('revision read errors', `${errorsOf(read)} (${read.timeouts} timeouts, ${read.non2xx} non-2xx)`, '0', errorsOf(read) === 0);
 
@@ -337,11 +379,35 @@ try {
   report('mixed: lost writes', `${lost} of ${SESSIONS} drafts behind their last acknowledged save`, '0', lost === 0);
   report('mixed: p99', `${mixed.latency.p99} ms`, '≤ 1000 ms', mixed.latency.p99 <= 1000);
   await db.destroy();
+  for (const child of children.splice(0)) child.kill('SIGTERM');
+  await new Promise((r) => setTimeout(r, 2_000));
+  return rows;
+}
 
-  console.log('\nsummary');
-  console.table(rows.map(([what, figure, target, met]) => ({ what, figure, target, met })));
+try {
+  const workers = Number(process.env.WEB_CONCURRENCY ?? availableParallelism());
+  console.log(
+    `Voltfall server benchmark: ${workers} worker(s), ${availableParallelism()} CPU(s), load average ${loadavg()
+      .map((l) => l.toFixed(1))
+      .join(' ')}${SHORT ? ' — SHORT run: checks that it works, the figures mean nothing' : ''}`,
+  );
+  const results = new Map<Backend, Map<string, Row>>();
+  for (const backend of BACKENDS) results.set(backend, await benchOn(backend, workers));
+  // Both columns side by side; throughput figures are each against the bare route of their own run.
+  const names = [...new Set([...results.values()].flatMap((r) => [...r.keys()]))];
+  console.log('\nsummary (req/s ratios are against the bare Express route measured in the same run)');
+  console.table(
+    names.map((what) => {
+      const line: Record<string, string> = { what };
+      for (const [backend, r] of results)
+        line[TITLES[backend]] = r.get(what) ? `${r.get(what)!.figure}${r.get(what)!.met ? ` [${r.get(what)!.met}]` : ''}` : '';
+      line.target = [...results.values()].map((r) => r.get(what)?.target).find(Boolean) ?? '';
+      return line;
+    }),
+  );
 } finally {
   for (const child of children) child.kill('SIGTERM');
   await new Promise((r) => setTimeout(r, 2_000));
-  rmSync(dir, { recursive: true, force: true });
+  for (const stop of stops) await stop();
+  rmSync(top, { recursive: true, force: true });
 }

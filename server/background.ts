@@ -1,9 +1,12 @@
 import type { Logger } from 'pino';
+import type { JobLease } from './leases/lease';
 
 /**
  * A periodic job that never takes the process down: a failure (a busy or full database, a mail relay
  * that hangs up) is logged and the job runs again after a growing pause — 0.5 s, 1 s, 2 s … up to a
- * minute — and back on its normal cadence after the first success.
+ * minute — and back on its normal cadence after the first success. With a lease, a scheduled run does
+ * the work only while this process holds the job's lease (one instance among those sharing the
+ * database); `runNow` is a direct request and runs it here regardless.
  */
 export class BackgroundLoop {
   private timer: ReturnType<typeof setTimeout> | null = null;
@@ -16,6 +19,7 @@ export class BackgroundLoop {
     private readonly work: () => Promise<void>,
     private readonly log: Logger,
     private readonly intervalMs: number,
+    private readonly lease: JobLease | null = null,
     private readonly maxBackoffMs = 60_000,
   ) {}
 
@@ -29,11 +33,17 @@ export class BackgroundLoop {
     if (this.timer) clearTimeout(this.timer);
     this.timer = null;
     await this.running;
+    // A clean stop hands the job to another instance at once instead of after the lease expires.
+    await this.lease?.release().catch((err: unknown) => this.log.warn({ err, job: this.name }, `could not release the lease of ${this.name}`));
   }
 
   /** Runs the job now (a run in progress is shared); resolves when it is done, never rejects. */
   runNow(): Promise<void> {
-    this.running ??= this.work()
+    return this.run(this.work);
+  }
+
+  private run(work: () => Promise<void>): Promise<void> {
+    this.running ??= work()
       .then(() => {
         this.failures = 0;
       })
@@ -50,7 +60,8 @@ export class BackgroundLoop {
 
   private schedule(delayMs: number): void {
     if (this.timer) clearTimeout(this.timer);
-    this.timer = setTimeout(() => void this.runNow(), delayMs);
+    const lease = this.lease;
+    this.timer = setTimeout(() => void this.run(lease ? async () => void (await lease.runIfHeld(this.work)) : this.work), delayMs);
   }
 }
 

@@ -32,7 +32,7 @@ export async function startCluster(env: Record<string, string | undefined>, coun
   const db = await openDataFolder(config, log);
   const primary = await startPrimaryWork(db, config, log, systemClock);
   // The workers time-stamp through the primary's authority (or the configured one).
-  const signing = await startSigning(config);
+  const signing = await startSigning(config, db);
   const workerEnv = { ...env, ...(signing.localTsaUrl ? { TSA_URL: signing.localTsaUrl } : {}) };
   let stopping = false;
 

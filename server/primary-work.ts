@@ -1,6 +1,7 @@
-// Work that runs once per data folder, never once per worker: the local mail server, mail delivery and
+// Work that runs once per instance, never once per worker: the local mail server, mail delivery and
 // its retries, the data-folder sweep and the sweep of expired sessions and throttle buckets. A cluster's
-// primary runs it; a single process runs it beside its HTTP server.
+// primary runs it; a single process runs it beside its HTTP server. Where several instances share one
+// database, the periodic jobs take a lease (server/leases) so that one of them runs each at a time.
 import type { Logger } from 'pino';
 import { Sessions } from './auth/sessions';
 import { Throttle } from './auth/throttle';
@@ -9,6 +10,7 @@ import type { Clock } from './clock';
 import type { Config } from './config';
 import type { Db } from './db/knex';
 import { Housekeeping } from './housekeeping/sweep';
+import { JobLease, leaseTtl } from './leases/lease';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { MailSender } from './mail/mailer';
 
@@ -45,7 +47,14 @@ export async function startPrimaryWork(db: Db, config: Config, log: Logger, cloc
     throttle: new Throttle(db, clock, config),
     log,
   };
-  const sweep = new BackgroundLoop('sweep of expired sessions and throttles', () => sweepExpired(expiring), log, config.sessions.sweepMs);
+  const sweepName = 'sweep of expired sessions and throttles';
+  const sweep = new BackgroundLoop(
+    sweepName,
+    () => sweepExpired(expiring),
+    log,
+    config.sessions.sweepMs,
+    new JobLease(db, sweepName, leaseTtl(config.sessions.sweepMs)),
+  );
   sweep.start();
   return {
     fakeSmtp,

@@ -117,7 +117,7 @@ export async function startServer(config: Config, options: StartOptions = {}): P
   const clock = options.clock ?? systemClock;
   const db = await openDataFolder(config, log);
   const primary = await startPrimaryWork(db, config, log, clock);
-  const signing = await startSigning(config);
+  const signing = await startSigning(config, db);
   const http = await serveHttp(config, { db, log, clock, signing, kickMail: () => void primary.mail.flush() });
   const { ctx, server, port } = http;
   log.info({ port, dataDir: config.dataDir, fakeSmtp: primary.fakeSmtp?.url ?? null, localTsa: signing.localTsaUrl }, 'Voltfall is listening');

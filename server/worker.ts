@@ -12,7 +12,7 @@ import { startSigning } from './signing/service';
 const config = loadConfig();
 const log = createLogger(config);
 const db = await openDatabase(config.dataDir, { busyTimeoutMs: config.busyTimeoutMs, migrate: false, url: config.databaseUrl });
-const signing = await startSigning(config);
+const signing = await startSigning(config, db);
 const http = await serveHttp(config, { db, log, clock: systemClock, signing, kickMail: () => process.send?.(KICK_MAIL) });
 guardProcess(log);
 

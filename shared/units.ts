@@ -325,6 +325,8 @@ export function formatQuantity(value: number, unit: QuantityUnit | string, digit
   // Seconds above one and temperatures read better without prefixes ("112 s", not "0.112 ks").
   if ((unit === 's' && magnitude >= 1) || unit === 'K' || unit === '°C') return `${trimmed(value, digits)} ${unit}`;
   for (const [scale, prefix] of FORMAT_PREFIXES) {
+    // Below one half no rounding reaches 1: skip the prefix without formatting it.
+    if (magnitude / scale < 0.5 && scale !== 1e-15) continue;
     const mantissa = Number((value / scale).toPrecision(digits));
     if (Math.abs(mantissa) >= 1 || scale === 1e-15) return `${trimmed(mantissa, digits)} ${prefix}${unit}`;
   }

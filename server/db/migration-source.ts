@@ -5,6 +5,7 @@ import * as m003 from './migrations/003-dossiers-and-revisions';
 import * as m004 from './migrations/004-revision-version-and-file-release';
 import * as m005 from './migrations/005-sessions-throttle-signatures';
 import * as m006 from './migrations/006-revision-verdict-and-list-indexes';
+import * as m007 from './migrations/007-leases-claims-shared-pki';
 
 interface Migration {
   up(knex: Knex): Promise<void>;
@@ -19,6 +20,7 @@ const migrations: Record<string, Migration> = {
   '004-revision-version-and-file-release': m004,
   '005-sessions-throttle-signatures': m005,
   '006-revision-verdict-and-list-indexes': m006,
+  '007-leases-claims-shared-pki': m007,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -1,4 +1,5 @@
 import { randomUUID } from 'node:crypto';
+import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import { hashPassword } from '../auth/passwords';
 import type { Db } from './knex';
@@ -14,20 +15,27 @@ export const DEMO_USERS = [
   { email: 'viewer@fennel.test', name: 'Tomás Ibarra', role: 'viewer' },
 ] as const;
 
-/** The invented Fennel Grid Labs scenario, written only into an empty database and never in production. */
+const hasUsers = async (db: Db | Knex.Transaction) => Number((await db('user').count({ n: '*' }).first())?.n ?? 0) > 0;
+
+/**
+ * The invented Fennel Grid Labs scenario, written only into an empty database and never in production.
+ * Instances that start together on one database seed it once: the write transaction holds the write
+ * lock, and the database is checked again inside it.
+ */
 export async function seedDemo(db: Db, log?: Logger): Promise<void> {
-  const existing = await db('user').count({ n: '*' }).first();
-  if (Number(existing?.n ?? 0) > 0) return;
+  if (await hasUsers(db)) return;
   const hash = await hashPassword(DEMO_PASSWORD);
   const now = new Date().toISOString();
   const ids: Record<string, string> = {};
-  await db.transaction(async (trx) => {
+  const seeded = await db.transaction(async (trx) => {
+    if (await hasUsers(trx)) return false;
     for (const user of DEMO_USERS) {
       const id = randomUUID();
       ids[user.role === 'engineer' && user.email.startsWith('engineer2') ? 'engineer2' : user.role] = id;
       await trx('user').insert({ id, ...user, password_hash: hash, disabled_at: null, created_at: now });
     }
     await seedDemoDossiers(trx, ids);
+    return true;
   });
-  log?.info('seeded the demo scenario (Fennel Grid Labs)');
+  if (seeded) log?.info('seeded the demo scenario (Fennel Grid Labs)');
 }

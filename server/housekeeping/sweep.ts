@@ -3,6 +3,7 @@ import { BackgroundLoop } from '../background';
 import type { Config } from '../config';
 import type { Db } from '../db/knex';
 import { openContentStore, type ContentStore } from '../evidence/storage';
+import { JobLease, leaseTtl } from '../leases/lease';
 import { fileReleases, forgetReleases, holdWriteLock, referencedEvidenceFiles, referencedSignedDossiers } from './store';
 import { sweepTempFiles } from './temp-files';
 
@@ -21,11 +22,16 @@ interface SweepReport {
  * signings, evidence files no row references (after the grace period when a draft released them, at
  * once when nothing ever committed a row for them), signed dossiers of approvals that never committed.
  * A file any evidence row references — every submitted revision's included — is never touched.
+ *
+ * Temporary files are on this machine's disk, so every instance sweeps its own. Stored objects in a
+ * bucket are shared: their sweep runs on the instance holding its lease. A folder store is on one
+ * machine, swept by the instance (or the instances of that machine) that own it.
  */
 export class Housekeeping {
   private readonly loop: BackgroundLoop;
   private readonly evidence: ContentStore;
   private readonly dossiers: ContentStore;
+  private readonly sharedStoreLease: JobLease | null;
 
   constructor(
     private readonly db: Db,
@@ -35,6 +41,7 @@ export class Housekeeping {
   ) {
     this.evidence = openContentStore(config, 'evidence');
     this.dossiers = openContentStore(config, 'dossiers');
+    this.sharedStoreLease = config.evidenceStore.kind === 's3' ? new JobLease(db, 'sweep of stored objects', leaseTtl(SWEEP_EVERY_MS)) : null;
     this.loop = new BackgroundLoop('data folder sweep', async () => void (await this.sweep(false)), log, SWEEP_EVERY_MS);
   }
 
@@ -51,12 +58,14 @@ export class Housekeeping {
     this.loop.start();
   }
 
-  stop(): Promise<void> {
-    return this.loop.stop();
+  async stop(): Promise<void> {
+    await this.loop.stop();
+    await this.sharedStoreLease?.release().catch((err: unknown) => this.log.warn({ err }, 'could not release the lease of the stored-object sweep'));
   }
 
   async sweep(startingUp: boolean, now = Date.now()): Promise<SweepReport> {
     const temp = await sweepTempFiles([this.evidence.stagingDir, this.dossiers.stagingDir], TEMP_MAX_AGE_MS, startingUp, now);
+    if (this.sharedStoreLease && !(await this.sharedStoreLease.take())) return { tempFiles: temp.length, orphanEvidence: 0, orphanSignedDossiers: 0 };
     const evidenceFiles = (await this.evidence.list()).map((o) => o.name);
     const signedFiles = (await this.dossiers.list()).map((o) => o.name);
     const removed = await this.db.transaction(async (trx) => {

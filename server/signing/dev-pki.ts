@@ -1,4 +1,5 @@
-// The development PKI, generated once in the data folder outside production: a root CA, the
+// The development PKI, generated once outside production (in the data folder, or once per PostgreSQL
+// database so that every instance signs alike): a root CA, the
 // certificate that signs dossiers (non-repudiation, digital signature), the local time-stamping
 // authority's certificate (extended key usage timeStamping, critical) and a CRL from the root.
 // Every name says "not for certification"; the keys protect nothing of value.
@@ -60,58 +61,90 @@ interface StoredPki {
   crl: string;
 }
 
+/**
+ * Where the development PKI is kept: the data folder's dev-pki.json, or (several instances on one
+ * PostgreSQL database) one row of the database. `createIfAbsent` never replaces what a concurrent first
+ * start stored: both starts end up with the first one's keys, not with a root that no longer matches
+ * the stored certificates.
+ */
+export interface PkiStorage {
+  /** A key for sharing concurrent first calls within this process. */
+  readonly id: string;
+  read(): Promise<string | null>;
+  createIfAbsent(text: string): Promise<void>;
+  /** Replaces the stored text (same keys, a fresh CRL): safe whoever wins. */
+  replace(text: string): Promise<void>;
+}
+
+/** dev-pki.json in the data folder (the single-machine default). */
+export function folderPkiStorage(dataDir: string): PkiStorage {
+  const file = join(dataDir, DEV_PKI_FILE);
+  const writeTemp = async (text: string) => {
+    const temp = `${file}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`;
+    await writeFile(temp, text, { mode: 0o600 });
+    return temp;
+  };
+  return {
+    id: file,
+    async read() {
+      try {
+        return await readFile(file, 'utf8');
+      } catch (error) {
+        if ((error as NodeJS.ErrnoException).code === 'ENOENT') return null;
+        throw error;
+      }
+    },
+    async createIfAbsent(text) {
+      await mkdir(dataDir, { recursive: true });
+      // link() refuses to replace a file.
+      const temp = await writeTemp(text);
+      try {
+        await link(temp, file);
+      } catch (error) {
+        if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
+      } finally {
+        await rm(temp, { force: true });
+      }
+    },
+    async replace(text) {
+      await rename(await writeTemp(text), file);
+    },
+  };
+}
+
 const pending = new Map<string, Promise<DevPki>>();
 
 /** Reads the development PKI from the data folder, creating it on first use and renewing its CRL when due. */
 export function loadOrCreateDevPki(dataDir: string): Promise<DevPki> {
-  const file = join(dataDir, DEV_PKI_FILE);
+  return loadOrCreateDevPkiIn(folderPkiStorage(dataDir));
+}
+
+/** Reads the development PKI from `storage`, creating it on first use and renewing its CRL when due. */
+export function loadOrCreateDevPkiIn(storage: PkiStorage): Promise<DevPki> {
   // Concurrent first calls share one creation, so every caller gets the same keys.
-  let pki = pending.get(file);
+  let pki = pending.get(storage.id);
   if (!pki) {
-    pki = readOrCreate(dataDir, file).finally(() => pending.delete(file));
-    pending.set(file, pki);
+    pki = readOrCreate(storage).finally(() => pending.delete(storage.id));
+    pending.set(storage.id, pki);
   }
   return pki;
 }
 
-async function readOrCreate(dataDir: string, file: string): Promise<DevPki> {
-  const existing = await readPki(file);
-  if (!existing) {
-    await mkdir(dataDir, { recursive: true });
-    // link() refuses to replace a file: when two processes create at once, both end up with the first
-    // one's keys, not with a root that no longer matches the stored certificates.
-    const temp = await writeTemp(file, await createPki());
-    try {
-      await link(temp, file);
-    } catch (error) {
-      if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
-    } finally {
-      await rm(temp, { force: true });
-    }
-    return (await readPki(file))!;
+async function readOrCreate(storage: PkiStorage): Promise<DevPki> {
+  const text = await storage.read();
+  if (text === null) {
+    await storage.createIfAbsent(JSON.stringify(store(await createPki())));
+    return parsePki((await storage.read())!);
   }
+  const existing = parsePki(text);
   if (crlDue(existing.crl)) {
-    // Same keys, a fresh CRL: replacing the file is safe whoever wins.
     existing.crl = await issueCrl(existing.root);
-    await rename(await writeTemp(file, existing), file);
+    await storage.replace(JSON.stringify(store(existing)));
   }
   return existing;
 }
 
-async function writeTemp(file: string, pki: DevPki): Promise<string> {
-  const temp = `${file}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`;
-  await writeFile(temp, JSON.stringify(store(pki)), { mode: 0o600 });
-  return temp;
-}
-
-async function readPki(file: string): Promise<DevPki | null> {
-  let text: string;
-  try {
-    text = await readFile(file, 'utf8');
-  } catch (error) {
-    if ((error as NodeJS.ErrnoException).code === 'ENOENT') return null;
-    throw error;
-  }
+function parsePki(text: string): DevPki {
   const stored = JSON.parse(text) as StoredPki;
   const b = (s: string) => new Uint8Array(Buffer.from(s, 'base64'));
   const pair = (p: StoredPki['root']) => ({ cert: b(p.cert), key: b(p.key) });

@@ -2,8 +2,10 @@
 // start-up, so a bad file stops the server), or the development PKI with the local time-stamping
 // authority on loopback elsewhere.
 import type { Config } from '../config';
+import type { Db } from '../db/knex';
 import { pem } from './asn1';
-import { loadOrCreateDevPki } from './dev-pki';
+import { folderPkiStorage, loadOrCreateDevPkiIn } from './dev-pki';
+import { databasePkiStorage } from './store';
 import { developmentSetup, organisationSetup, type SigningSetup } from './identity';
 import { startLocalTsa, type LocalTsa } from './local-tsa';
 
@@ -17,7 +19,12 @@ export interface Signing {
   close(): Promise<void>;
 }
 
-export async function startSigning(config: Config): Promise<Signing> {
+/**
+ * Outside production the development PKI is read (created on first use) from the data folder, or, on
+ * PostgreSQL, from the database `db`: instances sharing it sign with one CA and one time-stamping key,
+ * each answering time-stamp requests with its own local authority.
+ */
+export async function startSigning(config: Config, db?: Db): Promise<Signing> {
   const { p12Path, p12Password, chainPath, tsaUrl } = config.signing;
   if (p12Path) {
     const setup = organisationSetup({ p12Path, p12Password: p12Password ?? '', chainPath, tsaUrl: tsaUrl === 'none' ? null : tsaUrl });
@@ -28,7 +35,8 @@ export async function startSigning(config: Config): Promise<Signing> {
   if (config.production) {
     throw new Error('Signing in production needs the organisation’s PKCS#12 file (SIGNING_P12_PATH) and its password (SIGNING_P12_PASSWORD).');
   }
-  const pki = () => loadOrCreateDevPki(config.dataDir);
+  const storage = config.databaseUrl && db ? databasePkiStorage(db, config.databaseUrl) : folderPkiStorage(config.dataDir);
+  const pki = () => loadOrCreateDevPkiIn(storage);
   const localTsa = tsaUrl === null ? await startLocalTsa(async () => (await pki()).tsa) : null;
   const url = tsaUrl === 'none' ? null : (localTsa?.url ?? tsaUrl);
   let setup: Promise<SigningSetup> | null = null;

@@ -53,7 +53,7 @@ describe('paged lists in the browser', () => {
       const inReview = await total('status=in_review');
       expect(inReview).toBeGreaterThan(0);
       await expect.poll(() => p.page.getByTestId('dossiers-more-count').textContent()).toBe(`Showing ${inReview} of ${inReview}`);
-      expect(await p.page.getByTestId('dossier-filter-summary').textContent()).toBe('Only latest revision Awaiting review.');
+      expect(await p.page.getByTestId('dossier-filter-summary').textContent()).toBe('Showing dossiers with the latest revision awaiting review.');
 
       const products = (await engineer.get('/api/products')).body as Array<{ id: number; name: string }>;
       const last = products[products.length - 1];

@@ -45,7 +45,7 @@ async function visit(p: WatchedPage, path: string, testID: string) {
 
 describe('layout of every screen', { timeout: WALK_MS }, () => {
   for (const [name, size] of sizes) {
-    it(`signed out on a ${name}: sign-in, set-password and cautions`, async () => {
+    it(`signed out on a ${name}: sign-in, forgot password, set-password and cautions`, async () => {
       const p = await browser.page(size);
       await visit(p, '/sign-in', 'sign-in-screen');
       await expectTidy(p, `sign-in-${name}`, { inputs: true });
@@ -53,6 +53,11 @@ describe('layout of every screen', { timeout: WALK_MS }, () => {
       await p.page.getByTestId('sign-in-email-error').waitFor();
       await expectTidy(p, `sign-in-errors-${name}`, { errors: true });
       await focusEach(p, `sign-in-${name}`);
+      await visit(p, '/forgot-password', 'forgot-password-screen');
+      await expectTidy(p, `forgot-password-${name}`, { inputs: true });
+      await p.page.getByTestId('forgot-password-submit').click();
+      await p.page.getByTestId('forgot-password-email-error').waitFor();
+      await expectTidy(p, `forgot-password-errors-${name}`, { inputs: true, errors: true });
       await visit(p, '/set-password', 'invite-invalid');
       await expectTidy(p, `set-password-${name}`, { errors: true });
       await visit(p, '/cautions', 'cautions-screen');

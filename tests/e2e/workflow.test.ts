@@ -110,7 +110,11 @@ describe('dossier review story at both widths', () => {
         await engineer.page.getByTestId(`returned-to-me-item-${revisionId}`).waitFor();
         await engineer.shot(`workflow-05-overview-returned-${width}`);
         await engineer.page.getByTestId(`returned-to-me-item-${revisionId}`).click();
-        await engineer.page.getByTestId('to-dossier').click();
+        // The returned revision itself opens with the reason and the way to answer it.
+        await expect
+          .poll(() => engineer.page.getByTestId('returned-here-comment').textContent())
+          .toBe('“Show the margin with a 68 kΩ part as well.”');
+        await engineer.page.getByTestId('returned-here-dossier').click();
         await engineer.page.getByTestId('start-revision').click();
         await engineer.page.getByTestId('revision-screen').waitFor();
         await expect.poll(() => engineer.page.url()).not.toContain(`/revisions/${revisionId}`);

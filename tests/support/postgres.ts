@@ -28,9 +28,12 @@ export async function freePort(): Promise<number> {
   });
 }
 
-/** `argv` as the postgres user when this process is root, as this user otherwise. */
+/**
+ * `argv` as the postgres user when this process is root, as this user otherwise. setpriv changes user
+ * and execs (runuser would stay as a parent that does not pass SIGINT on, so `stop()` never ended).
+ */
 function asServerUser(argv: string[]): [string, string[]] {
-  return process.getuid?.() === 0 ? ['runuser', ['-u', 'postgres', '--', ...argv]] : [argv[0], argv.slice(1)];
+  return process.getuid?.() === 0 ? ['setpriv', ['--reuid=postgres', '--regid=postgres', '--init-groups', '--', ...argv]] : [argv[0], argv.slice(1)];
 }
 
 async function waitUntilAccepting(url: string, child: ChildProcess, log: () => string): Promise<void> {

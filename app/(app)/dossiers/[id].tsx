@@ -110,7 +110,7 @@ export default function DossierScreen() {
             {r.signedPdf ? (
               <Text style={[type.mono, styles.hash]}>sha256 {r.signedPdf.sha256}</Text>
             ) : (
-              <Text style={type.small}>Signed on first download.</Text>
+              <Text style={type.small}>No stored copy yet: the first download signs it and keeps it; later downloads return those same bytes.</Text>
             )}
           </View>
         ))}

@@ -4,7 +4,7 @@ import { StyleSheet, Text, View } from 'react-native';
 import { RevisionChanges } from '../../../components/revision-changes';
 import { RevisionDesign } from '../../../components/revision-design';
 import { RevisionEvidence } from '../../../components/revision-evidence';
-import { ReturnNote } from '../../../components/return-note';
+import { ReturnedHere, ReturnNote } from '../../../components/return-note';
 import { RevisionReview } from '../../../components/revision-review';
 import { StatusBadge, VerdictBadge } from '../../../components/status';
 import { Tabs } from '../../../components/tabs';
@@ -42,6 +42,7 @@ export default function RevisionScreen() {
       </Screen>
     );
   const rev = revision.data;
+  const answeredBy = rev.siblings.find((s) => s.number === rev.number + 1) ?? null;
 
   return (
     <Screen
@@ -75,6 +76,15 @@ export default function RevisionScreen() {
           All revisions of this dossier
         </Link>
       </View>
+      {rev.status === 'returned' && rev.decision ? (
+        <ReturnedHere
+          decision={rev.decision}
+          dossierId={rev.dossierId}
+          answeredBy={answeredBy}
+          toReader={rev.author.id === me.id}
+          testID="returned-here"
+        />
+      ) : null}
       {rev.answersReturn ? <ReturnNote note={rev.answersReturn} toReader={rev.author.id === me.id} testID="return-note" /> : null}
       <Tabs tabs={TABS} value={tab} onChange={setTab} testID="revision-tabs" />
       {/* Kept mounted behind the other tabs: input still waiting to be saved, or a conflict, is not dropped. */}
