@@ -7,7 +7,7 @@ import { LegendEntry } from './chart-legend';
 import { colors, fonts, space, type } from '../constants/theme';
 import { formatQuantity } from '../shared/units';
 
-export interface RingingPoint {
+interface RingingPoint {
   t: number;
   v: number;
 }

@@ -22,7 +22,7 @@ import { Message } from './ui/message';
 import { QuantityField } from './ui/quantity-field';
 import { TextField } from './ui/text-field';
 
-export interface SnubberFieldProblem {
+interface SnubberFieldProblem {
   /** Dotted path from the API, e.g. "design.snubbers.0.resistance". */
   path: string;
   message: string;

@@ -28,7 +28,7 @@ export const notFound = (what: string) => new AppError(404, 'not_found', `${what
 export const forbidden = (reason: string) => new AppError(403, 'forbidden', reason);
 export const conflict = (reason: string) => new AppError(409, 'conflict', reason);
 
-export function fieldsFromZod(error: ZodError): FieldError[] {
+function fieldsFromZod(error: ZodError): FieldError[] {
   return error.issues.map((issue) => ({ path: issue.path.join('.'), message: issue.message }));
 }
 

@@ -2,7 +2,7 @@
 // parser, zod, the audit log — ever walks a body nested deeper than a design can be.
 
 /** The deepest nesting a valid body has is about 5 (design → snubbers → item); 32 leaves room. */
-export const MAX_JSON_DEPTH = 32;
+const MAX_JSON_DEPTH = 32;
 
 const OPEN_OBJECT = 0x7b;
 const OPEN_ARRAY = 0x5b;
@@ -12,7 +12,7 @@ const QUOTE = 0x22;
 const BACKSLASH = 0x5c;
 
 /** True when UTF-8 JSON text nests objects/arrays deeper than `max`; one pass, strings skipped, no recursion. */
-export function jsonNestingExceeds(bytes: Uint8Array, max: number): boolean {
+function jsonNestingExceeds(bytes: Uint8Array, max: number): boolean {
   let depth = 0;
   let inString = false;
   let escaped = false;

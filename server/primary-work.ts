@@ -14,7 +14,7 @@ import { JobLease, leaseTtl } from './leases/lease';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { MailSender } from './mail/mailer';
 
-export interface PrimaryWork {
+interface PrimaryWork {
   fakeSmtp: FakeSmtp | null;
   mail: MailSender;
   housekeeping: Housekeeping;
@@ -22,7 +22,7 @@ export interface PrimaryWork {
 }
 
 /** What the expiry sweep needs: the session and throttle stores and a log. */
-export interface Expiring {
+interface Expiring {
   sessions: Sessions;
   throttle: Throttle;
   log: Logger;

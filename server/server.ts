@@ -46,7 +46,7 @@ export async function openDataFolder(config: Config, log: Logger): Promise<Db> {
   return db;
 }
 
-export interface Http {
+interface Http {
   ctx: AppContext;
   server: Server;
   port: number;
@@ -54,7 +54,7 @@ export interface Http {
   close(): Promise<void>;
 }
 
-export interface HttpParts {
+interface HttpParts {
   db: Db;
   log: Logger;
   clock: Clock;

@@ -2,7 +2,7 @@
 // shared by the app's audit trail and the PDF dossier so both say the same thing.
 
 /** What the sentence needs of an event; the server's events and the API's answer both carry it. */
-export interface AuditEventLike {
+interface AuditEventLike {
   action: string;
   actorName: string | null;
   subjectType: string;
@@ -10,7 +10,7 @@ export interface AuditEventLike {
   payload: unknown;
 }
 
-export interface AuditSentenceContext {
+interface AuditSentenceContext {
   /** The number of a revision by its id, for events whose payload names the revision by id only. */
   revisionNumber?: (revisionId: number) => number | undefined;
   /** The name of a user by id, for events about an account. */

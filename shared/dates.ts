@@ -2,7 +2,7 @@
 // so "14:03" is never read in the wrong zone. (The PDF has its own UTC form: a signed document must
 // read the same for every reader.)
 
-export interface WhenOptions {
+interface WhenOptions {
   /** BCP 47 locale; the runtime's (the browser's) when left out. */
   locale?: string;
   /** IANA time zone; the runtime's when left out. */

@@ -11,7 +11,7 @@ export type QuantityUnit = 'F' | 'Ω' | 'V' | 'W' | 's' | 'A' | 'J' | 'C' | 'Hz'
 
 export type ParseResult = { ok: true; value: number } | { ok: false; error: string };
 
-export interface ParseOptions {
+interface ParseOptions {
   /** Accept 0 (e.g. a delay or a drift). Default false: most quantities here must be positive. */
   allowZero?: boolean;
   /** Accept negative values (temperatures, TCR). Default false. */

@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 
-export interface AuditInput {
+interface AuditInput {
   actorId: string | null;
   action: string;
   subjectType: string;
@@ -10,7 +10,7 @@ export interface AuditInput {
   payload?: unknown;
 }
 
-export interface AuditEvent {
+interface AuditEvent {
   id: number;
   actorId: string | null;
   action: string;
@@ -70,7 +70,7 @@ export async function appendAudit(trx: Knex | Knex.Transaction, input: AuditInpu
   await trx('audit_event').insert({ ...row, hash: eventHash(row) });
 }
 
-export interface ChainReport {
+interface ChainReport {
   verified: boolean;
   firstBroken: { id: number; reason: string } | null;
   events: AuditEvent[];

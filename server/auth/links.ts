@@ -6,9 +6,9 @@ import { claimLink, findLinkByTokenHash, findUserById, insertLink, revokeOpenLin
 type Db = Knex | Knex.Transaction;
 
 /** How long a one-time link works: an invitation a week, a password reset an hour. */
-export const LINK_LIFETIME_MS: Record<LinkKind, number> = { invite: 7 * 24 * 3600_000, reset: 3600_000 };
+const LINK_LIFETIME_MS: Record<LinkKind, number> = { invite: 7 * 24 * 3600_000, reset: 3600_000 };
 
-export const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
+const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
 
 /** A fresh one-time link for the user; any earlier open link of the same kind stops working. */
 export async function issueLink(trx: Db, clock: Clock, userId: string, kind: LinkKind): Promise<{ token: string; expiresAt: Date }> {
@@ -20,7 +20,7 @@ export async function issueLink(trx: Db, clock: Clock, userId: string, kind: Lin
   return { token, expiresAt };
 }
 
-export type LinkState = { ok: true; link: LinkRow; user: { id: string; email: string; name: string } } | { ok: false; reason: string };
+type LinkState = { ok: true; link: LinkRow; user: { id: string; email: string; name: string } } | { ok: false; reason: string };
 
 const ASK_AGAIN: Record<LinkKind, string> = {
   invite: 'Ask your administrator for a new invitation.',

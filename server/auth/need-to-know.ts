@@ -18,9 +18,3 @@ export function assertMaySee(user: SignedInUser, status: RevisionStatus, what = 
 export function visibleRevisions<Q extends Knex.QueryBuilder>(user: SignedInUser, query: Q, column = 'revision.status'): Q {
   return seesOnlyApproved(user) ? (query.where(column, 'approved') as Q) : query;
 }
-
-/** Narrows a dossier query to dossiers with something the user may see. */
-export function visibleDossiers<Q extends Knex.QueryBuilder>(db: Knex, user: SignedInUser, query: Q, column = 'dossier.id'): Q {
-  if (!seesOnlyApproved(user)) return query;
-  return query.whereExists(db('revision as seen').whereRaw('seen.dossier_id = ??', [column]).where('seen.status', 'approved')) as Q;
-}

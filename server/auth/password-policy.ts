@@ -9,7 +9,7 @@ let estimator: ZxcvbnFactory | null = null;
 // Built on first use: loading the common-password dictionary takes tens of milliseconds.
 const zxcvbn = () => (estimator ??= new ZxcvbnFactory({ dictionary: { ...common.dictionary }, graphs: common.adjacencyGraphs }));
 
-export interface PasswordOwner {
+interface PasswordOwner {
   name: string;
   email: string;
   organisation: string;

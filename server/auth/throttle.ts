@@ -7,7 +7,7 @@ import { AppError } from '../errors';
 import { deleteBucket, deleteBucketsOlderThan, ensureBuckets, findBuckets, giveBackAttempt, saveBucket } from './store';
 
 /** `free` attempts, then each further one waits base · 2^(failures − free), at most `maxMs`; forgotten after `forgetMs` of quiet. */
-export interface ThrottleRule {
+interface ThrottleRule {
   free: number;
   baseMs: number;
   maxMs: number;
@@ -22,7 +22,7 @@ export interface ThrottleKey {
 const MINUTE = 60_000;
 const HOUR = 60 * MINUTE;
 
-export type ThrottleVerdict = { ok: true } | { ok: false; retryAfterMs: number };
+type ThrottleVerdict = { ok: true } | { ok: false; retryAfterMs: number };
 
 /**
  * Attempt counting kept in the database, so it holds across restarts and instances. An attempt is

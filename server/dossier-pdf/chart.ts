@@ -2,7 +2,7 @@
 // so an assessor can zoom into the measured traces and the text stays searchable.
 import { scaleLinear } from 'd3-scale';
 
-export interface ChartPoint {
+interface ChartPoint {
   t: number;
   v: number;
 }
@@ -17,7 +17,7 @@ export interface ChartSeries {
   dash?: string;
 }
 
-export interface DecayChartInput {
+interface DecayChartInput {
   series: readonly ChartSeries[];
   safeVoltage: number | null;
   maxTime: number | null;

@@ -6,9 +6,9 @@ export type CheckWithEvidence = Check & { evidenceId?: string | number; evidence
 
 export const checkKind = (id: string) => id.split(':')[0];
 
-export const isSingleFault = (check: Pick<Check, 'id'>) => checkKind(check.id).startsWith('single-fault');
+const isSingleFault = (check: Pick<Check, 'id'>) => checkKind(check.id).startsWith('single-fault');
 
-export interface KnownFile {
+interface KnownFile {
   sha256: string;
   /** The file name; checks that name no hash are matched by it in their label. */
   name?: string;
@@ -35,7 +35,7 @@ export function captureOf(check: { id: string; evidenceSha256?: string; label?: 
 
 export const isEvidenceCheck = (check: CheckWithEvidence) => !!check.evidenceSha256 || checkKind(check.id).startsWith('measured-');
 
-export interface CheckGroups<T> {
+interface CheckGroups<T> {
   calculated: T[];
   singleFault: T[];
   /** By capture sha256 in first-seen order; null gathers evidence checks whose capture is unknown. */

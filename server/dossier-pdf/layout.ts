@@ -30,7 +30,7 @@ export const mono = (text: string, fontSize = 8): Content => ({ text, font: MONO
 // introduce, so none is left at the foot of a page. Doing it in the definition keeps pdfmake to one
 // layout pass; its pageBreakBefore hook relayouts the whole document for every heading it moves.
 const LEADS = new WeakSet<object>();
-export type Block = Exclude<Content, string | number | Content[]>;
+type Block = Exclude<Content, string | number | Content[]>;
 export function lead(item: Block): Block {
   LEADS.add(item);
   return item;
@@ -61,7 +61,7 @@ interface TableNode {
 }
 
 /** Hairlines between rows only: the table reads as a list of facts, not as a grid. */
-export const RULED = {
+const RULED = {
   hLineWidth: (i: number, node: TableNode) => (i === 0 || i === node.table.body.length ? 0 : 0.5),
   vLineWidth: () => 0,
   hLineColor: () => COLOURS.rule,

@@ -29,7 +29,7 @@ export interface EvidenceEntry {
   analysis?: WaveformAnalysis | null;
 }
 
-export interface ChangedInput {
+interface ChangedInput {
   /** Field path, e.g. "design.bleeder.resistance". */
   path: string;
   label: string;
@@ -55,7 +55,7 @@ export interface ChangedCheck {
   unit?: string;
 }
 
-export interface DiffSummary {
+interface DiffSummary {
   against: { id: Id; number: number };
   inputs: ChangedInput[];
   checks: ChangedCheck[];
@@ -96,7 +96,7 @@ export interface AuditEntry {
   hash: string;
 }
 
-export interface AuditSummary {
+interface AuditSummary {
   verified: boolean;
   /** This dossier's events, oldest first. */
   events: AuditEntry[];
@@ -105,7 +105,7 @@ export interface AuditSummary {
   firstBroken?: { id: Id; at?: Timestamp; reason?: string } | null;
 }
 
-export interface SignerSummary {
+interface SignerSummary {
   kind: 'development' | 'organisation';
   subject: string;
   fingerprintSha256?: string;

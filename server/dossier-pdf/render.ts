@@ -21,7 +21,7 @@ import { CAUTION_LINE, NOT_APPROVED_MARK, STATUS_SHORT } from './wording';
 
 export type { SignOptions } from './sign';
 
-export interface RenderOptions {
+interface RenderOptions {
   /** Required for an approved revision, refused for any other: only approved dossiers are signed. */
   sign?: SignOptions;
 }

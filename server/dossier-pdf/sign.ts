@@ -20,7 +20,7 @@ export interface SignOptions {
 }
 
 /** The pdfkit document pdfmake builds; only what the placeholder needs is named here. */
-export interface PdfKitDocumentLike {
+interface PdfKitDocumentLike {
   ref(data: object): unknown;
 }
 
@@ -58,7 +58,7 @@ class CadesSigner extends Signer {
   }
 }
 
-export interface SignedPdf {
+interface SignedPdf {
   pdf: Buffer;
   /** The trusted time of the signature timestamp; null when signed without one. */
   timestampedAt: Date | null;

@@ -8,10 +8,10 @@ import { fileReleases, forgetReleases, holdWriteLock, referencedEvidenceFiles, r
 import { sweepTempFiles } from './temp-files';
 
 /** A temporary file untouched this long belongs to an upload that will not finish. */
-export const TEMP_MAX_AGE_MS = 3600_000;
+const TEMP_MAX_AGE_MS = 3600_000;
 const SWEEP_EVERY_MS = 10 * 60_000;
 
-export interface SweepReport {
+interface SweepReport {
   tempFiles: number;
   orphanEvidence: number;
   orphanSignedDossiers: number;

@@ -18,7 +18,7 @@ function compiled(file: string): HandlebarsTemplateDelegate {
   return template;
 }
 
-export interface RenderedMail {
+interface RenderedMail {
   subject: string;
   text: string;
   html: string;

@@ -11,7 +11,7 @@ import { queueMail } from '../mail/mailer';
 import { findUser, findUserByEmail, insertUser, listUsers, updateUser } from './store';
 
 /** Where a person's invitation stands: null once they chose a password. */
-export type InviteStatus = 'open' | 'expired' | 'revoked' | 'used' | null;
+type InviteStatus = 'open' | 'expired' | 'revoked' | 'used' | null;
 
 export interface TeamMember {
   id: string;
@@ -49,7 +49,7 @@ export async function listTeam(ctx: AppContext): Promise<TeamMember[]> {
   return rows.map((r) => toMember(r, invites.get(r.id), now));
 }
 
-export async function teamMember(ctx: AppContext, id: string): Promise<TeamMember> {
+async function teamMember(ctx: AppContext, id: string): Promise<TeamMember> {
   const row = await findUser(ctx.db, id);
   if (!row) throw notFound('User');
   const invites = await latestInvites(ctx.db, [id]);

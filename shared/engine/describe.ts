@@ -8,7 +8,7 @@ import type { Scenario } from './scenario';
 export const q = formatQuantity;
 
 /** "+1 %", "−0.5 %" (true minus sign). */
-export function signedPercent(fraction: number): string {
+function signedPercent(fraction: number): string {
   return `${fraction < 0 ? '−' : '+'}${formatPercent(Math.abs(fraction))}`;
 }
 
@@ -22,7 +22,7 @@ export function describeResistorCorner(corner: ResistorCorner): string {
 }
 
 /** "C +20 %" or "C nominal". */
-export function describeCapacitorCorner(design: Design, corner: Scenario['corner']): string {
+function describeCapacitorCorner(design: Design, corner: Scenario['corner']): string {
   const tol = design.capacitors.tolerancePlus;
   return corner === 'worst' && tol > 0 ? `C ${signedPercent(tol)}` : 'C nominal';
 }

@@ -28,7 +28,7 @@ export interface PredictedDecay {
   readonly toleranceBand?: number;
 }
 
-export interface TauBand {
+interface TauBand {
   lower: number;
   upper: number;
 }

@@ -2,7 +2,7 @@
 import type { Ambient, Bleeder, Capacitors, Design } from '../schema/discharge';
 
 /** Reference temperature of resistor TCR figures, °C. */
-export const TCR_REFERENCE_C = 25;
+const TCR_REFERENCE_C = 25;
 
 /** Resistors in series add (ΣR). */
 export function seriesResistance(values: readonly number[]): number {

@@ -11,7 +11,7 @@ import { measuredDischargeCheck } from './measured';
 import { snubberChecks, snubberMissingInputs, snubberStoredEnergy } from './snubber';
 
 /** An analysed capture among a revision's evidence. */
-export interface MeasuredCapture {
+interface MeasuredCapture {
   /** The evidence record's id. */
   evidenceId: number;
   /** SHA-256 of the file (hex): the capture's identity across revisions. */
@@ -21,7 +21,7 @@ export interface MeasuredCapture {
 }
 
 /** Length of the SHA-256 prefix in a measured check's id, `measured-discharge:<12 hex>`. */
-export const CHECK_ID_SHA_PREFIX = 12;
+const CHECK_ID_SHA_PREFIX = 12;
 
 /**
  * A capture's checks get ids unique within the results and stable for the same file: the kind, then

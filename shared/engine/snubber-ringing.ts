@@ -14,7 +14,7 @@ export interface RingingCircuit {
   readonly snubber?: { readonly resistance: number; readonly capacitance: number };
 }
 
-export interface ComplexNumber {
+interface ComplexNumber {
   re: number;
   im: number;
 }

@@ -18,7 +18,7 @@ export const DEFAULT_MIN_DAMPING_RATIO = 0.5;
 // ---------------------------------------------------------------------------------------------------
 // Sizing from a ringing measurement
 
-export interface RingingMeasurement {
+interface RingingMeasurement {
   /** Ring frequency of the bare node, Hz. */
   readonly f0: number;
   /** Known capacitance added across the node, F. */
@@ -107,7 +107,7 @@ export function sizeFromRinging(m: RingingMeasurement): RingingSizing {
 // ---------------------------------------------------------------------------------------------------
 // Checks for a snubber in a design
 
-export interface SnubberCheckOptions {
+interface SnubberCheckOptions {
   /** Lowest acceptable damping ratio for an RC snubber (default 0.5, common practice). */
   readonly minDampingRatio?: number;
 }
@@ -349,7 +349,7 @@ export function snubberMissingInputs(snubber: Readonly<Snubber>): string[] {
 // ---------------------------------------------------------------------------------------------------
 // Stored energy
 
-export interface SnubberEnergy {
+interface SnubberEnergy {
   name: string;
   /** Capacitance at its + tolerance, F. */
   capacitance: number;

@@ -26,7 +26,7 @@ export interface FieldSpec {
   optional?: true;
 }
 
-export interface FieldGroup {
+interface FieldGroup {
   key: string;
   title: string;
   fields: FieldSpec[];
@@ -37,7 +37,7 @@ export interface FieldGroup {
 export type ActiveMode = 'constant-current' | 'switched-resistor';
 
 /** A field of the active discharge circuit, present in the modes listed. */
-export interface ActiveFieldSpec extends FieldSpec {
+interface ActiveFieldSpec extends FieldSpec {
   modes: readonly ActiveMode[];
 }
 
@@ -191,7 +191,7 @@ export const SNUBBER_KIND_KEYS: readonly SnubberKindKey[] = ['rc', 'rcd-turnoff'
 export const SNUBBER_KIND_WORDS: Record<SnubberKindKey, string> = { rc: 'RC', 'rcd-turnoff': 'RCD turn-off', 'rcd-clamp': 'RCD clamp' };
 
 /** Where a snubber field sits in the editor: parts and ratings, the operating point, or its kind's own details. */
-export type SnubberFieldGroup = 'parts' | 'operating' | 'kind';
+type SnubberFieldGroup = 'parts' | 'operating' | 'kind';
 
 export type SnubberNumericKey =
   | 'resistance'

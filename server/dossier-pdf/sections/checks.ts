@@ -10,7 +10,7 @@ import type { DossierPdfModel } from '../model';
 import { checkVerdictWord, VERDICT_WORDS, type CheckWord } from '../wording';
 import { cautionLine } from './cover';
 
-export const verdictColour = (word: CheckWord | string) =>
+const verdictColour = (word: CheckWord | string) =>
   word === 'PASS' ? COLOURS.pass : word === 'FAIL' ? COLOURS.fail : word === 'FOR INFORMATION' ? COLOURS.info : COLOURS.neutral;
 
 function checkBlock(check: Check): Content {

@@ -5,7 +5,7 @@ import { band, COLOURS, facts, mono } from '../layout';
 import { approvalOf, decisionsOnRevision, type DossierPdfModel } from '../model';
 import { CAUTIONS, DEVELOPMENT_MARK, NOT_APPROVED_MARK, STATUS_WORDS, TRUSTED_TIME_WORDS, VERDICT_WORDS } from '../wording';
 
-export function limitSentence(req: Requirement): string {
+function limitSentence(req: Requirement): string {
   const parts = [`voltage at or below ${quantity(req.safeVoltage, 'V')} within ${quantity(req.maxTime, 's')}`];
   if (req.maxEnergy != null) parts.push(`or stored energy at most ${quantity(req.maxEnergy, 'J')}`);
   if (req.maxCharge != null) parts.push(`or stored charge at most ${quantity(req.maxCharge, 'C')}`);
@@ -85,7 +85,7 @@ export function cover(model: DossierPdfModel): Content[] {
 }
 
 /** The cautions in full (docs/DOMAIN.md §6). */
-export function cautionsBox(): Content {
+function cautionsBox(): Content {
   return {
     table: {
       widths: ['*'],

@@ -7,7 +7,7 @@ export interface Cell {
   quoted: boolean;
 }
 
-export type CellKind = 'number' | 'marker' | 'text';
+type CellKind = 'number' | 'marker' | 'text';
 
 const NUMBER_DOT = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 const NUMBER_COMMA = /^[+-]?(?:\d+,?\d*|,\d+)(?:[eE][+-]?\d+)?$/;

@@ -9,7 +9,7 @@ import { COMMENT_MARK, isMetadataLine, readMetadata, type Metadata } from './met
 import type { ByteSource } from './source';
 import { readHeaderCell, type HeaderCell } from './units';
 
-export interface ColumnInfo {
+interface ColumnInfo {
   index: number;
   /** Header text (trimmed), or "column N" when the file has no header row. */
   label: string;

@@ -19,7 +19,7 @@ async function withFile<T>(path: string, use: (source: ByteSource) => Promise<T>
 }
 
 /** A capture in memory: text (as UTF-8), or the bytes of a file in any encoding the reader takes. */
-export type CaptureContent = string | Uint8Array;
+type CaptureContent = string | Uint8Array;
 
 const textSource = (content: CaptureContent) => memorySource(typeof content === 'string' ? Buffer.from(content, 'utf8') : content);
 
@@ -38,7 +38,7 @@ export async function analyseCaptureText(text: CaptureContent, options: Analysis
   return analyseSource(textSource(text), analysisOptionsSchema.parse(options));
 }
 
-export interface CaptureOutline {
+interface CaptureOutline {
   /** Channel names in column order (the time column excluded), for picking the voltage and marker. */
   channels: string[];
   /** Label of the time column, or null when time comes from the metadata's start + increment. */
@@ -58,7 +58,7 @@ export async function outlineCaptureFile(path: string): Promise<CaptureOutline> 
   });
 }
 
-export interface CaptureTable {
+interface CaptureTable {
   channels: string[];
   /** Seconds. */
   time: number[];

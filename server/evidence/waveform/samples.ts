@@ -11,7 +11,7 @@ const BATCH_ROWS = 8192;
  * Samples of one batch, row-major: `data[r·stride]` is the time (s), `data[r·stride + 1 + k]` the value
  * of the k-th extracted column (scaled). Arrays are reused between batches: valid only in the callback.
  */
-export interface SampleBatch {
+interface SampleBatch {
   count: number;
   data: Float64Array;
   stride: number;
@@ -29,7 +29,7 @@ export interface PassResult {
   repeatedTimes: number;
 }
 
-export interface PassRange {
+interface PassRange {
   from: number;
   to: number;
   /** Data-row index of the row at `from`. */

@@ -1,7 +1,7 @@
 // Unit hints as they appear in capture headers and metadata ("Time (ms)", "t[us]", "CH1 (kV)", "mV",
 // "Sample rate,100 kS/s"). Only units that change the numbers are recognised: time, voltage, sample rate.
 
-export type UnitKind = 'time' | 'voltage' | 'frequency';
+type UnitKind = 'time' | 'voltage' | 'frequency';
 
 export interface Unit {
   kind: UnitKind;
