@@ -10,6 +10,7 @@ import { openDatabase, type Db } from '../../server/db/knex';
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { MailSender } from '../../server/mail/mailer';
 import { claimDueMail } from '../../server/outbox/store';
+import { pendingMailRow } from '../support/fixtures';
 import { createDatabase, startPostgres, type PostgresServer } from '../support/postgres';
 
 let pg: PostgresServer;
@@ -39,19 +40,7 @@ const iso = (ms: number) => new Date(ms).toISOString();
 
 async function queue(db: Db, subjects: string[], extra: Record<string, unknown> = {}): Promise<void> {
   const now = iso(Date.now() - 1_000);
-  await db('mail_queue').insert(
-    subjects.map((subject) => ({
-      to: 'reviewer@fennel.test',
-      subject,
-      text: 'body',
-      html: '<p>body</p>',
-      status: 'pending',
-      attempts: 0,
-      next_attempt_at: now,
-      created_at: now,
-      ...extra,
-    })),
-  );
+  await db('mail_queue').insert(subjects.map((subject) => ({ ...pendingMailRow(subject, now), ...extra })));
 }
 
 describe.each(['sqlite', 'postgres'] as const)('mail claims on %s', (kind) => {

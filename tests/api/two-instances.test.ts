@@ -14,7 +14,7 @@ import { openContentStore } from '../../server/evidence/storage';
 import { nssDatabase } from '../pdf/signature-tools';
 import { pdfsig } from '../pdf/poppler';
 import { captureCsv } from '../support/captures';
-import { demoDesign, demoRequirement } from '../support/fixtures';
+import { demoDesign, demoRequirement, pendingMailRow } from '../support/fixtures';
 import { createDatabase, startPostgres, type PostgresServer } from '../support/postgres';
 import { createBucket, S3_KEY, s3Env, startS3, type S3Server } from '../support/s3';
 import { spawnServer, type ServerProcess } from '../support/server-process';
@@ -234,16 +234,7 @@ describe('two instances on one database and one bucket', () => {
   it('when both instances deliver from one queue at once, then every message goes out once, a dead claimant’s included', async () => {
     const now = new Date().toISOString();
     const tag = randomUUID().slice(0, 8);
-    const rows = Array.from({ length: 20 }, (_, i) => ({
-      to: 'reviewer@fennel.test',
-      subject: `Queue race ${tag} #${i}`,
-      text: 'body',
-      html: '<p>body</p>',
-      status: 'pending',
-      attempts: 0,
-      next_attempt_at: now,
-      created_at: now,
-    }));
+    const rows = Array.from({ length: 20 }, (_, i) => pendingMailRow(`Queue race ${tag} #${i}`, now));
     // One more, claimed by an instance that died: its claim ran out a minute ago.
     rows.push({ ...rows[0], subject: `Queue race ${tag} #dead-claimant` });
     await db('mail_queue').insert(rows.slice(0, 20));

@@ -17,3 +17,17 @@ export const demoDesign = { ...exampleDesign, capacitors: exampleCapacitors, ble
 
 /** The same link with 1 kΩ bleeders: fast, but far over the resistors' power rating. */
 export const failingDesign = { ...demoDesign, bleeder: { ...demoDesign.bleeder, resistance: 1_000 } };
+
+/** A message waiting in `mail_queue`, due at `atIso`: what the mail sender picks up. */
+export function pendingMailRow(subject: string, atIso: string) {
+  return {
+    to: 'reviewer@fennel.test',
+    subject,
+    text: 'body',
+    html: '<p>body</p>',
+    status: 'pending',
+    attempts: 0,
+    next_attempt_at: atIso,
+    created_at: atIso,
+  };
+}
